@@ -1,0 +1,4 @@
+import type { Command } from 'commander';
+
+/** `xylemap reconstruct`: not registered yet (work in progress). */
+export function register(_program: Command): void {}
