@@ -1,4 +1,162 @@
-import type { Command } from 'commander';
+import { existsSync, readFileSync } from 'node:fs';
+import { dirname, join, resolve } from 'node:path';
+import { Option, type Command } from 'commander';
+import { analyseHydraulics, HYDRAULICS_CAUTION, HYDRAULICS_COLUMNS } from '../../core/hydraulics/analyse.js';
+import { BUILTIN_PRESETS, hydraulicsOptions } from '../../core/hydraulics/options.js';
+import { writeFileAtomic } from '../../core/io/atomic.js';
+import { readConfigFile } from '../../core/io/config-file.js';
+import { formatSegmentsCsv, parseSegmentsCsv } from '../../core/io/segments-csv.js';
+import { describeRule, type OptionSpec } from '../../core/options/declare.js';
+import { withFile, XylemapError } from '../../core/util/errors.js';
 
-/** `xylemap hydraulics`: not registered yet (work in progress). */
-export function register(_program: Command): void {}
+/**
+ * `xylemap hydraulics <DIR/segments.csv>`: adds conduit, conductance, water-potential and PLC
+ * columns to segments.csv and the `hydraulics` block to summary.json (merged if present).
+ */
+export function register(program: Command): void {
+  const cmd = program
+    .command('hydraulics')
+    .argument('<segments>', 'segments.csv of one tree (from reconstruct or simulate)')
+    .summary('conduit sizes, whole-tree conductance, water potentials and safety margin (model estimates)')
+    .description(
+      `Estimate conduit sizes, segment and whole-tree hydraulic conductance, steady water potentials,
+embolism (PLC), the critical transpiration and the hydraulic safety margin of a tree network.
+
+CAUTION: ${HYDRAULICS_CAUTION}
+
+Writes <out>/segments.csv with the columns ${HYDRAULICS_COLUMNS.join(', ')}
+and the "hydraulics" block of <out>/summary.json (merged into an existing one).
+Built-in species presets: ${BUILTIN_PRESETS.join(', ')}; --preset-file FILE uses your own YAML
+(same keys as core/hydraulics/presets/*.yaml). Precedence: defaults < --config < flags.`,
+    )
+    .option('--config <file>', 'YAML configuration; its "hydraulics" mapping sets the options below')
+    .option('--out <dir>', 'output folder (default: the folder of the input)')
+    .option('--json', 'print one JSON object to stdout instead of text');
+  const attribute = new Map<string, string>();
+  for (const [key, spec] of Object.entries(hydraulicsOptions.specs)) {
+    const option = flagFor(key, spec as OptionSpec);
+    attribute.set(key, option.attributeName());
+    cmd.addOption(option);
+  }
+  cmd.action((segmentsPath: string, flags: Record<string, unknown>, self: Command) => {
+    const input = resolve(segmentsPath);
+    const outDir = resolve((flags.out as string | undefined) ?? dirname(input));
+    const config = flags.config ? readConfig(flags.config as string) : {};
+    const fromFlags: Record<string, unknown> = {};
+    // Only flags typed on the command line override the configuration (not commander's implied defaults).
+    for (const [key, attr] of attribute) if (self.getOptionValueSource(attr) === 'cli') fromFlags[key] = flags[attr];
+    const options = hydraulicsOptions.resolve({ ...config, ...fromFlags });
+    const network = parseSegmentsCsv(readText(input, 'segments table'), input);
+    const { summary, segmentColumns } = analyseHydraulics(network, options);
+    network.segments.forEach((s, i) => {
+      const extra = { ...(s.extra ?? {}) };
+      for (const col of HYDRAULICS_COLUMNS) extra[col] = segmentColumns[col][i];
+      s.extra = extra;
+    });
+    const summaryPath = join(outDir, 'summary.json');
+    const merged = mergeSummary(existingSummary(summaryPath, join(dirname(input), 'summary.json')), summary);
+    // Everything is computed before the first write, so a failure leaves no partial output.
+    const segmentsOut = join(outDir, 'segments.csv');
+    writeFileAtomic(segmentsOut, formatSegmentsCsv(network));
+    writeFileAtomic(summaryPath, `${JSON.stringify(merged, null, 2)}\n`);
+    if (flags.json) {
+      process.stdout.write(`${JSON.stringify({ hydraulics: summary, outputs: { segments_csv: segmentsOut, summary_json: summaryPath } })}\n`);
+    } else {
+      process.stdout.write(textReport(summary, [segmentsOut, summaryPath]));
+    }
+  });
+}
+
+/** A commander option built from an option declaration: `temperature_c` → `--temperature-c <number>`. */
+function flagFor(key: string, spec: OptionSpec): Option {
+  const flag = `--${key.replace(/_/g, '-')}`;
+  const unit = spec.type === 'number' && spec.unit !== '1' ? ` [${spec.unit}]` : '';
+  if (spec.type === 'boolean') {
+    return spec.default
+      ? new Option(`--no-${key.replace(/_/g, '-')}`, `do not: ${spec.help}`)
+      : new Option(flag, spec.help);
+  }
+  const option = new Option(`${flag} <${spec.type === 'number' ? 'number' : 'value'}>`, `${spec.help}${unit} (default ${JSON.stringify(spec.default)})`);
+  if (spec.type === 'enum') return option.choices([...spec.values]);
+  if (spec.type === 'number') {
+    return option.argParser((raw: string) => {
+      const v = Number(raw);
+      if (raw.trim() === '' || !Number.isFinite(v)) {
+        throw new XylemapError(`must be ${describeRule(spec)}, got "${raw}"`, { stage: 'hydraulics', option: `hydraulics.${key}`, hint: spec.help });
+      }
+      return v;
+    });
+  }
+  return option;
+}
+
+function readText(path: string, what: string): string {
+  try {
+    return readFileSync(path, 'utf8');
+  } catch (e) {
+    const code = (e as NodeJS.ErrnoException).code ?? 'read error';
+    throw new XylemapError(`cannot read ${what} (${code})`, { file: path, hint: 'check the path' });
+  }
+}
+
+/** The `hydraulics` mapping of a YAML configuration, validated (other stages' keys are left to them). */
+function readConfig(path: string): Record<string, unknown> {
+  const value = readConfigFile(path);
+  if (value === null || value === undefined) return {};
+  if (typeof value !== 'object' || Array.isArray(value)) {
+    throw new XylemapError('a configuration must be a YAML mapping of stage names to options', { file: path });
+  }
+  const block = (value as Record<string, unknown>).hydraulics;
+  if (block === undefined || block === null) return {};
+  try {
+    hydraulicsOptions.resolve(block);
+  } catch (e) {
+    throw withFile(e, path);
+  }
+  return block as Record<string, unknown>;
+}
+
+function existingSummary(...candidates: string[]): Record<string, unknown> | null {
+  for (const path of candidates) {
+    if (!existsSync(path)) continue;
+    try {
+      const value = JSON.parse(readFileSync(path, 'utf8'));
+      if (value && typeof value === 'object' && !Array.isArray(value)) return value as Record<string, unknown>;
+    } catch {
+      // fall through to the error below
+    }
+    throw new XylemapError('existing summary.json is not a JSON object', { file: path, hint: 'fix or remove it, then run again' });
+  }
+  return null;
+}
+
+/** Replace the hydraulics block and the hydraulics warnings, keep everything else. */
+function mergeSummary(existing: Record<string, unknown> | null, block: Record<string, unknown>): Record<string, unknown> {
+  const base = existing ?? { schema: 'xylemap.summary/1' };
+  const others = Array.isArray(base.warnings) ? base.warnings.filter((w) => !(typeof w === 'string' && w.startsWith('hydraulics: '))) : [];
+  const ours = (block.warnings as string[]).map((w) => `hydraulics: ${w}`);
+  return { ...base, hydraulics: block, warnings: [...others, ...ours] };
+}
+
+function textReport(s: Record<string, unknown>, outputs: string[]): string {
+  const num = (v: unknown, digits = 3): string => (typeof v === 'number' && Number.isFinite(v) ? v.toPrecision(digits) : 'n/a');
+  const whatIf = s.what_if as { da_vinci: Record<string, number>; murray: Record<string, number> };
+  const lines = [
+    `CAUTION: ${HYDRAULICS_CAUTION}`,
+    `preset ${s.preset} (${s.preset_source}); rules ${Object.values(s.rules as object).join(', ')}`,
+    `tree conductance           ${num(s.tree_conductance_kg_s_mpa)} kg s⁻¹ MPa⁻¹ (Kirchhoff check: relative difference ${num(s.solver_relative_difference, 2)})`,
+    `  per basal area           ${num(s.conductance_per_basal_area_kg_s_mpa_m2)} kg s⁻¹ MPa⁻¹ m⁻²`,
+    `  per sapwood area         ${num(s.conductance_per_sapwood_area_kg_s_mpa_m2)} kg s⁻¹ MPa⁻¹ m⁻²`,
+    `  leaf-specific            ${num(s.leaf_specific_conductance_kg_s_mpa_m2)} kg s⁻¹ MPa⁻¹ m⁻² (leaf area ${num(s.leaf_area_m2)} m², ${s.leaf_area_source})`,
+    `max path length            ${num(s.max_path_length_m)} m`,
+    `conduit D_h base / tips    ${num(s.conduit_diameter_base_um)} / ${num(s.conduit_diameter_tips_um)} µm (tips median)`,
+    `transpiration              ${num(s.transpiration_kg_s)} kg s⁻¹ (${s.transpiration_source})`,
+    `min water potential        ${num(s.min_water_potential_mpa)} MPa (soil ${num(s.soil_water_potential_mpa)} MPa; ${s.steady_state})`,
+    `safety margin (min Ψ − P50) ${num(s.safety_margin_mpa)} MPa (P50 ${num(s.p50_mpa)} MPa)`,
+    `critical transpiration     ${num(s.critical_transpiration_kg_s)} kg s⁻¹`,
+    `what if da Vinci / Murray  ${num(whatIf.da_vinci.tree_conductance_kg_s_mpa)} / ${num(whatIf.murray.tree_conductance_kg_s_mpa)} kg s⁻¹ MPa⁻¹ (× ${num(whatIf.da_vinci.ratio_to_measured)} / × ${num(whatIf.murray.ratio_to_measured)} of measured)`,
+    ...(s.warnings as string[]).map((w) => `warning: ${w}`),
+    `wrote ${outputs.join(', ')}`,
+  ];
+  return `${lines.join('\n')}\n`;
+}

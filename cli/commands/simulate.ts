@@ -1,4 +1,128 @@
-import type { Command } from 'commander';
+import { join, resolve } from 'node:path';
+import { Option, type Command } from 'commander';
+import { writeFileAtomic } from '../../core/io/atomic.js';
+import { readConfigFile } from '../../core/io/config-file.js';
+import { encodeLas } from '../../core/io/las-write.js';
+import { formatSegmentsCsv } from '../../core/io/segments-csv.js';
+import { describeRule, type OptionSpecs, type StageOptions } from '../../core/options/declare.js';
+import { simulateOptions } from '../../core/simulate/options.js';
+import { PRESETS, presetOptions } from '../../core/simulate/presets.js';
+import { simulate, type VirtualScan } from '../../core/simulate/simulate.js';
+import { XylemapError } from '../../core/util/errors.js';
 
-/** `xylemap simulate`: not registered yet (work in progress). */
-export function register(_program: Command): void {}
+/**
+ * `xylemap simulate --preset NAME --seed N --out DIR`: a virtual scan — a generated tree with
+ * known architecture, scanned by the simulated terrestrial scanner. Writes DIR/scan.las (or
+ * --las FILE), DIR/segments.csv (the truth) and DIR/truth.json.
+ */
+export function register(program: Command): void {
+  const cmd = program
+    .command('simulate')
+    .summary('scan lab: generate a tree with known architecture and scan it virtually')
+    .description(
+      `Generate a tree (exact area-preservation exponent at every furcation) and scan it with a
+simulated terrestrial scanner (occlusion, range noise, beam divergence with mixed pixels,
+ground, clutter, registration error, optional leaves).
+Writes <out>/scan.las (LAS 1.4, point format 6, extra bytes segment_id and label:
+0 wood, 1 ground, 2 clutter, 3 mixed pixel, 4 leaf), <out>/segments.csv and <out>/truth.json.
+Presets: ${Object.entries(PRESETS)
+        .map(([k, p]) => `${k} (${p.summary})`)
+        .join('; ')}.
+Precedence: defaults < --preset < --config (its "simulate" mapping) < flags.`,
+    )
+    .requiredOption('--out <dir>', 'folder for segments.csv, truth.json and (by default) scan.las')
+    .option('--preset <name>', `starting parameters: ${Object.keys(PRESETS).join(', ')}`)
+    .option('--config <file>', 'YAML configuration; its "simulate" mapping sets the options below')
+    .option('--las <file>', 'write the scan here instead of <out>/scan.las')
+    .option('--json', 'print one JSON object to stdout instead of text');
+  const attributes = addDeclaredFlags(cmd, simulateOptions);
+  cmd.action((flags: Record<string, unknown>, self: Command) => {
+    const preset = typeof flags.preset === 'string' ? flags.preset : null;
+    const fromPreset = preset ? presetOptions(preset) : {};
+    const config = flags.config ? configBlock(readConfigFile(flags.config as string), flags.config as string, 'simulate') : {};
+    const options = simulateOptions.resolve({ ...fromPreset, ...config, ...givenFlags(self, flags, attributes) });
+    const started = performance.now();
+    const scan = simulate(options, preset);
+    const seconds = (performance.now() - started) / 1000;
+    const outDir = resolve(flags.out as string);
+    const lasPath = flags.las ? resolve(flags.las as string) : join(outDir, 'scan.las');
+    // Encode everything before writing anything, so a failure leaves no partial output.
+    const las = encodeLas(scan.cloud, { version: '1.4', pointFormat: 6, extraBytes: ['segment_id', 'label'] });
+    const csv = formatSegmentsCsv(scan.tree.network);
+    const truth = `${JSON.stringify(scan.truth, null, 2)}\n`;
+    writeFileAtomic(lasPath, las);
+    writeFileAtomic(join(outDir, 'segments.csv'), csv);
+    writeFileAtomic(join(outDir, 'truth.json'), truth);
+    const outputs = [lasPath, join(outDir, 'segments.csv'), join(outDir, 'truth.json')];
+    if (flags.json) process.stdout.write(`${JSON.stringify({ simulate: { tree: scan.truth.tree, scan: scan.truth.scan, seconds }, outputs })}\n`);
+    else process.stdout.write(textReport(scan, seconds, outputs));
+  });
+}
+
+/**
+ * One `--key-with-dashes <value>` flag per declared option (boolean: `--key true|false`).
+ * @returns option key → commander attribute name
+ */
+export function addDeclaredFlags(cmd: Command, stage: StageOptions<OptionSpecs>): Map<string, string> {
+  const attributes = new Map<string, string>();
+  for (const [key, spec] of Object.entries(stage.specs)) {
+    const flag = `--${key.replace(/_/g, '-')}`;
+    const unit = spec.type === 'number' && spec.unit !== '1' ? ` [${spec.unit}]` : '';
+    const option = new Option(`${flag} <${spec.type === 'number' ? 'number' : spec.type === 'boolean' ? 'true|false' : 'value'}>`, `${spec.help}${unit} (default ${JSON.stringify(spec.default)})`);
+    if (spec.type === 'enum') option.choices([...spec.values]);
+    option.argParser((raw: string) => {
+      const path = `${stage.stage}.${key}`;
+      if (spec.type === 'number') {
+        const v = Number(raw);
+        if (raw.trim() === '' || !Number.isFinite(v)) throw new XylemapError(`must be ${describeRule(spec)}, got "${raw}"`, { stage: stage.stage, option: path, hint: spec.help });
+        return v;
+      }
+      if (spec.type === 'boolean') {
+        if (raw === 'true' || raw === '1') return true;
+        if (raw === 'false' || raw === '0') return false;
+        throw new XylemapError(`must be true or false, got "${raw}"`, { stage: stage.stage, option: path, hint: spec.help });
+      }
+      return raw;
+    });
+    attributes.set(key, option.attributeName());
+    cmd.addOption(option);
+  }
+  return attributes;
+}
+
+/** Values of the declared flags that were given on the command line. */
+export function givenFlags(self: Command, flags: Record<string, unknown>, attributes: Map<string, string>): Record<string, unknown> {
+  const out: Record<string, unknown> = {};
+  for (const [key, attr] of attributes) if (self.getOptionValueSource(attr) === 'cli') out[key] = flags[attr];
+  return out;
+}
+
+/** The mapping of one stage in a YAML configuration (empty when absent). */
+export function configBlock(value: unknown, file: string, stage: string): Record<string, unknown> {
+  if (value === undefined || value === null) return {};
+  if (typeof value !== 'object' || Array.isArray(value)) {
+    throw new XylemapError('a configuration must be a YAML mapping of stage names to options', { file });
+  }
+  const block = (value as Record<string, unknown>)[stage];
+  if (block === undefined || block === null) return {};
+  if (typeof block !== 'object' || Array.isArray(block)) {
+    throw new XylemapError(`"${stage}" must be a mapping of option keys to values`, { file, option: stage });
+  }
+  return block as Record<string, unknown>;
+}
+
+function textReport(scan: VirtualScan, seconds: number, outputs: string[]): string {
+  const t = scan.truth.tree;
+  const s = scan.truth.scan;
+  const f = (v: number | null, d = 3): string => (v === null ? 'n/a' : v.toFixed(d));
+  const lines = [
+    `virtual scan (seed ${scan.truth.seed}${scan.truth.preset ? `, preset ${scan.truth.preset}` : ''}), ${seconds.toFixed(1)} s`,
+    `  tree     height ${f(t.height_m, 2)} m, DBH ${f(t.dbh_m)} m, wood volume ${f(t.wood_volume_m3)} m³, branch length ${f(t.total_branch_length_m, 1)} m`,
+    `           ${t.segment_count} segments, ${t.branch_count} branches, ${t.furcation_count} furcations, ${t.tip_count} tips, max order ${t.max_branch_order}, exponent a ${scan.truth.exponent_a}`,
+    `  scan     ${s.positions.length} positions, ${s.rays} rays, ${s.points} points (${Object.entries(s.points_per_label)
+      .map(([k, n]) => `${k} ${n}`)
+      .join(', ')})`,
+    `wrote ${outputs.join(', ')}`,
+  ];
+  return `${lines.join('\n')}\n`;
+}

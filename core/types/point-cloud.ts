@@ -85,6 +85,8 @@ export interface CloudSource {
   /** Width in bytes of the extra-bytes block per record (described or not). */
   extraBytesPerRecord?: number;
   compressed?: boolean;
+  /** Problems the reader tolerated (e.g. a damaged EVLR area), one sentence each. */
+  warnings?: string[];
 }
 
 export interface PointCloud {

@@ -1,0 +1,124 @@
+import type { Network, Segment, Vec3 } from '../types/network.js';
+import { XylemapError } from '../util/errors.js';
+
+/** Schema id of network.json; bump the number on any incompatible change. */
+export const NETWORK_SCHEMA = 'xylemap.network/1';
+
+/** Units of every numeric field, written into the file so that readers need no documentation. */
+export const NETWORK_UNITS = {
+  start: 'm (input frame)',
+  end: 'm (input frame)',
+  radius_m: 'm',
+  radius_se_m: 'm',
+  radius_fit_m: 'm',
+  length_m: 'm',
+  fit_rmse_m: 'm',
+  arc_coverage: 'fraction of circumference, 0..1',
+  point_count: 'points',
+} as const;
+
+/**
+ * network.json: the network as one JSON object `{schema, units, crs_wkt?, segment_count, segments: [...]}`,
+ * keys snake_case as in segments.csv; start/end as [x, y, z] in the input's own frame.
+ * @param meta extra top-level fields (e.g. `{ source: "scan.las" }`), written after `units`
+ */
+export function formatNetworkJson(network: Network, meta: Record<string, unknown> = {}): string {
+  const segments = network.segments.map((s) => ({
+    segment_id: s.segmentId,
+    parent_id: s.parentId,
+    branch_id: s.branchId,
+    branch_order: s.branchOrder,
+    strahler_order: s.strahlerOrder,
+    start: s.start,
+    end: s.end,
+    radius_m: s.radiusM,
+    radius_se_m: s.radiusSeM,
+    length_m: s.lengthM,
+    fit_rmse_m: s.fitRmseM,
+    arc_coverage: s.arcCoverage,
+    point_count: s.pointCount,
+    reliable: s.reliable,
+    reliability_reason: s.reliabilityReason,
+    radius_fit_m: s.radiusFitM ?? s.radiusM,
+    radius_correction: s.radiusCorrection ?? '',
+    ...(s.extra && Object.keys(s.extra).length > 0 ? { extra: s.extra } : {}),
+  }));
+  return (
+    JSON.stringify(
+      {
+        schema: NETWORK_SCHEMA,
+        units: NETWORK_UNITS,
+        ...meta,
+        ...(network.crsWkt ? { crs_wkt: network.crsWkt } : {}),
+        segment_count: segments.length,
+        segments,
+      },
+      null,
+      1,
+    ) + '\n'
+  );
+}
+
+/**
+ * Read network.json back.
+ * @throws XylemapError naming the file and the first bad field
+ */
+export function parseNetworkJson(text: string, file = 'network.json'): Network {
+  let doc: unknown;
+  try {
+    doc = JSON.parse(text);
+  } catch (e) {
+    throw new XylemapError(`not valid JSON (${(e as Error).message})`, { file, hint: 'network.json is written by xylemap reconstruct' });
+  }
+  const o = doc as Record<string, unknown>;
+  if (!o || typeof o !== 'object' || o.schema !== NETWORK_SCHEMA) {
+    throw new XylemapError(`not a network file: schema is ${JSON.stringify(o?.schema)}, expected "${NETWORK_SCHEMA}"`, {
+      file,
+      hint: 'give a network.json written by xylemap reconstruct',
+    });
+  }
+  if (!Array.isArray(o.segments)) throw new XylemapError('"segments" must be an array', { file });
+  const segments = (o.segments as Record<string, unknown>[]).map((r, i): Segment => {
+    const num = (key: string, fallback?: number): number => {
+      const v = r[key];
+      if (v === undefined && fallback !== undefined) return fallback;
+      if (typeof v !== 'number' || !Number.isFinite(v)) {
+        throw new XylemapError(`segment ${i}: ${key} must be a finite number, got ${JSON.stringify(v)}`, { file });
+      }
+      return v;
+    };
+    const vec = (key: string): Vec3 => {
+      const v = r[key];
+      if (!Array.isArray(v) || v.length !== 3 || !v.every((c) => typeof c === 'number' && Number.isFinite(c))) {
+        throw new XylemapError(`segment ${i}: ${key} must be [x, y, z] of finite numbers`, { file });
+      }
+      return [v[0], v[1], v[2]];
+    };
+    const radiusM = num('radius_m');
+    if (!(radiusM > 0)) throw new XylemapError(`segment ${i}: radius_m must be > 0 m, got ${radiusM}`, { file });
+    const start = vec('start');
+    const end = vec('end');
+    const extra = r.extra && typeof r.extra === 'object' ? (r.extra as Record<string, number | string>) : undefined;
+    return {
+      segmentId: num('segment_id'),
+      parentId: num('parent_id'),
+      branchId: num('branch_id', 0),
+      branchOrder: num('branch_order', 0),
+      strahlerOrder: num('strahler_order', 0),
+      start,
+      end,
+      radiusM,
+      radiusSeM: num('radius_se_m', 0),
+      lengthM: num('length_m', Math.hypot(end[0] - start[0], end[1] - start[1], end[2] - start[2])),
+      fitRmseM: num('fit_rmse_m', 0),
+      arcCoverage: num('arc_coverage', 1),
+      pointCount: num('point_count', 0),
+      reliable: r.reliable === undefined ? true : r.reliable === true,
+      reliabilityReason: typeof r.reliability_reason === 'string' ? r.reliability_reason : '',
+      radiusFitM: num('radius_fit_m', radiusM),
+      radiusCorrection: typeof r.radius_correction === 'string' ? r.radius_correction : '',
+      ...(extra ? { extra } : {}),
+    };
+  });
+  return { segments, ...(typeof o.crs_wkt === 'string' ? { crsWkt: o.crs_wkt } : {}) };
+}

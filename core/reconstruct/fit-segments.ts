@@ -1,0 +1,160 @@
+import type { Segment, Vec3 } from '../types/network.js';
+import type { BandClusters } from './band-clusters.js';
+import { medianRadius } from './band-clusters.js';
+import type { Skeleton } from './skeleton.js';
+import { fitCylinder } from './fit/cylinder-fit.js';
+import { segmentReliability } from './segment-reliability.js';
+
+/** What fitting needs from the cleaned cloud. */
+export interface FitInput {
+  /** Local coordinates of all input points, m. */
+  px: Float64Array;
+  py: Float64Array;
+  pz: Float64Array;
+  /** Vertex coordinates (voxel centroids), m. */
+  vx: Float64Array;
+  vy: Float64Array;
+  vz: Float64Array;
+  /** Vertex → voxel, and the voxel's input points. */
+  vertexVoxel: Int32Array;
+  voxelPointOffsets: Int32Array;
+  voxelPoints: Int32Array;
+  /** Ground height (local frame) below (x, y), m. */
+  groundAt: (x: number, y: number) => number;
+}
+
+export interface FitOptions {
+  range_noise_m: number;
+  min_fit_points: number;
+}
+
+/** Largest factor between a fitted radius and the cluster's rough radius before the fit is rejected (common practice, no source). */
+const RADIUS_SANITY_FACTOR = 3;
+
+/**
+ * One cylinder per skeleton piece, in the local frame. The axis starts from the direction between
+ * the piece's base and top cluster centroids (never the PCA axis alone: a trunk slice shorter than
+ * its diameter has its largest spread across the stem). Segments are joined: each starts where its
+ * parent ends; the stem base segment is extended down its axis to the ground surface.
+ * Pieces whose fit fails or is implausible keep the rough cluster radius and are flagged.
+ *
+ * @returns segments with segmentId = piece index and parentId = parent piece (local coordinates)
+ */
+export function fitSegments(input: FitInput, bands: BandClusters, skeleton: Skeleton, options: FitOptions): Segment[] {
+  const segments: Segment[] = [];
+  for (let p = 0; p < skeleton.pieces.length; p++) {
+    const piece = skeleton.pieces[p];
+    const pts = piecePoints(input, bands, piece.clusters);
+    const first = piece.clusters[0];
+    const last = piece.clusters[piece.clusters.length - 1];
+    const before = piece.parent >= 0 ? lastCluster(skeleton, piece.parent) : bands.parent[first];
+    const top = centroid(bands, last);
+    const bottom = piece.clusters.length > 1 ? centroid(bands, first) : before >= 0 ? centroid(bands, before) : null;
+    let axis: Vec3 = bottom ? unit(sub(top, bottom)) : [0, 0, 1];
+    if (!(Math.abs(axis[0]) + Math.abs(axis[1]) + Math.abs(axis[2]) > 0)) axis = [0, 0, 1];
+    const rough = roughRadius(input, bands, piece.clusters, axis);
+    const fit = pts.length >= options.min_fit_points ? fitCylinder(input.px, input.py, input.pz, pts, { initialAxis: axis, rangeNoiseM: options.range_noise_m }) : null;
+    const sane = fit !== null && fit.radiusM > 0 && fit.radiusM <= RADIUS_SANITY_FACTOR * Math.max(rough, 0.005) && fit.radiusM >= rough / RADIUS_SANITY_FACTOR;
+    const parent = piece.parent >= 0 ? segments[piece.parent] : null;
+    let start: Vec3;
+    let end: Vec3;
+    let dir: Vec3 = sane ? (fit!.axisDir as Vec3) : axis;
+    if (dot(dir, axis) < 0) dir = [-dir[0], -dir[1], -dir[2]];
+    if (sane) {
+      start = parent ? [...parent.end] as Vec3 : [...fit!.start] as Vec3;
+      end = [...fit!.end] as Vec3;
+    } else {
+      start = parent ? ([...parent.end] as Vec3) : centroid(bands, first);
+      end = top;
+    }
+    if (!parent) start = extendToGround(start, dir, input.groundAt);
+    if (!(dot(sub(end, start), dir) > 0)) {
+      // The fitted end lies behind the joint: keep the direction, use the piece's graph length.
+      const len = Math.max(1e-3, bands.maxDistM[last] - bands.minDistM[first]);
+      end = [start[0] + dir[0] * len, start[1] + dir[1] * len, start[2] + dir[2] * len];
+    }
+    const radiusM = sane ? fit!.radiusM : Math.max(rough, 1e-4);
+    const rel = sane ? segmentReliability(fit, options.min_fit_points, options.range_noise_m) : { reliable: false, reason: fit ? 'poor_fit' : 'few_points' };
+    segments.push({
+      segmentId: p,
+      parentId: piece.parent,
+      branchId: 0,
+      branchOrder: 0,
+      strahlerOrder: 0,
+      start,
+      end,
+      radiusM,
+      radiusSeM: sane ? fit!.radiusSeM : radiusM,
+      lengthM: Math.hypot(end[0] - start[0], end[1] - start[1], end[2] - start[2]),
+      fitRmseM: sane ? fit!.rmseM : 0,
+      arcCoverage: sane ? fit!.arcCoverage : 0,
+      pointCount: pts.length,
+      reliable: rel.reliable,
+      reliabilityReason: rel.reason,
+      radiusFitM: radiusM,
+      radiusCorrection: sane ? '' : 'cluster_spread',
+    });
+  }
+  return segments;
+}
+
+/** Input points of the piece (through vertices → voxels). */
+export function piecePoints(input: FitInput, bands: BandClusters, clusters: number[]): Int32Array {
+  let total = 0;
+  for (const c of clusters) {
+    for (let a = bands.offsets[c]; a < bands.offsets[c + 1]; a++) {
+      const vox = input.vertexVoxel[bands.vertices[a]];
+      total += input.voxelPointOffsets[vox + 1] - input.voxelPointOffsets[vox];
+    }
+  }
+  const out = new Int32Array(total);
+  let o = 0;
+  for (const c of clusters) {
+    for (let a = bands.offsets[c]; a < bands.offsets[c + 1]; a++) {
+      const vox = input.vertexVoxel[bands.vertices[a]];
+      for (let b = input.voxelPointOffsets[vox]; b < input.voxelPointOffsets[vox + 1]; b++) out[o++] = input.voxelPoints[b];
+    }
+  }
+  return out;
+}
+
+function roughRadius(input: FitInput, bands: BandClusters, clusters: number[], axis: Vec3): number {
+  const verts: number[] = [];
+  for (const c of clusters) for (let a = bands.offsets[c]; a < bands.offsets[c + 1]; a++) verts.push(bands.vertices[a]);
+  let sx = 0, sy = 0, sz = 0;
+  for (const v of verts) {
+    sx += input.vx[v];
+    sy += input.vy[v];
+    sz += input.vz[v];
+  }
+  const m = verts.length || 1;
+  return medianRadius(input.vx, input.vy, input.vz, verts, [sx / m, sy / m, sz / m], axis);
+}
+
+function lastCluster(skeleton: Skeleton, piece: number): number {
+  const c = skeleton.pieces[piece].clusters;
+  return c[c.length - 1];
+}
+
+function centroid(bands: BandClusters, c: number): Vec3 {
+  return [bands.centroid[3 * c], bands.centroid[3 * c + 1], bands.centroid[3 * c + 2]];
+}
+
+/** Move the stem-base start down its axis to the ground surface (at most 1 m). */
+function extendToGround(start: Vec3, dir: Vec3, groundAt: (x: number, y: number) => number): Vec3 {
+  if (!(dir[2] > 0.3)) return start;
+  const g = groundAt(start[0], start[1]);
+  const t = Math.min(1, Math.max(0, (start[2] - g) / dir[2]));
+  return [start[0] - dir[0] * t, start[1] - dir[1] * t, start[2] - dir[2] * t];
+}
+
+function sub(a: Vec3, b: Vec3): Vec3 {
+  return [a[0] - b[0], a[1] - b[1], a[2] - b[2]];
+}
+function dot(a: Vec3, b: Vec3): number {
+  return a[0] * b[0] + a[1] * b[1] + a[2] * b[2];
+}
+function unit(a: Vec3): Vec3 {
+  const l = Math.hypot(a[0], a[1], a[2]);
+  return l > 0 ? [a[0] / l, a[1] / l, a[2] / l] : [0, 0, 0];
+}

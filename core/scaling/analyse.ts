@@ -1,0 +1,265 @@
+import type { Network } from '../types/network.js';
+import { annotateNetwork, type AnnotatedNetwork } from '../topology/annotate.js';
+import { XylemapError } from '../util/errors.js';
+import {
+  evaluateFurcations,
+  exponentIntervals,
+  streamRandom,
+  type EvaluatedFurcation,
+} from './estimate.js';
+import { collectFurcations, type FurcationSet } from './furcation-set.js';
+import { scalingOptions, type ScalingOptionValues } from './options.js';
+import type { FurcationStatus } from './solve.js';
+import { finiteOrNull } from './stats.js';
+import { analyseTaper, type BranchTaperRow, type TaperSummary } from './taper.js';
+import { theoryTable, theoryValues, type TheoryRow } from './theory.js';
+import { trendTest, type TrendTest } from './trend.js';
+import { wbeRatios, wbeWithInterval, type WbeRatios } from './wbe.js';
+
+export const EXCLUSION_REASONS = ['unreliable_segments', 'below_min_radius', 'children_thinner', 'child_thicker', 'above_range'] as const;
+export type ExclusionReason = (typeof EXCLUSION_REASONS)[number];
+
+export interface ExponentBlock {
+  /** Median of the per-furcation exponents over used furcations. */
+  estimate: number | null;
+  ci95: [number | null, number | null];
+  confidence: number;
+  method: string;
+  /** Huber M-estimate over the same furcations. */
+  huber: number | null;
+  n_furcations: number;
+  n_used: number;
+  n_excluded: number;
+  excluded_by_reason: Record<ExclusionReason, number>;
+  /** Used furcations whose radii fell back to joint-adjacent segments. */
+  n_radius_from_adjacent: number;
+  /** Share of the observed between-furcation deviations kept in the bootstrap part of the interval. */
+  spread_shrink: number | null;
+  /** Typical SD of one furcation's exponent from radius errors (delta method). */
+  measurement_sd: number | null;
+  /** Robust SD of the solved exponents across furcations. */
+  observed_sd: number | null;
+}
+
+export interface ByOrderRow {
+  grouping: 'branch_order' | 'strahler_order' | 'parent_radius_class';
+  group: string;
+  n_used: number;
+  n_excluded: number;
+  estimate: number | null;
+  ci95: [number | null, number | null];
+  pooled: number | null;
+}
+
+export interface ScalingSummary {
+  exponent: ExponentBlock;
+  pooled: { estimate: number | null; ci95: [number | null, number | null]; n_used: number; method: string };
+  by_order: ByOrderRow[];
+  trend: TrendTest[];
+  theory: TheoryRow[];
+  wbe: { pooled: ReturnType<typeof wbeWithInterval>; by_order: (WbeRatios & { branch_order: number })[] };
+  taper: TaperSummary | null;
+  radius_rule: string;
+  options: ScalingOptionValues;
+}
+
+/** One row of furcations.csv. */
+export interface FurcationRow {
+  furcation_id: number;
+  parent_segment_id: number;
+  child_segment_ids: string;
+  n_children: number;
+  parent_branch_order: number;
+  parent_strahler_order: number;
+  parent_radius_m: number;
+  parent_radius_se_m: number;
+  child_radii_m: string;
+  child_radii_se_m: string;
+  exponent: number;
+  status: FurcationStatus;
+  /** Share of this furcation in the estimate: inverse delta-method variance normalised over used furcations (equal when SEs are 0); 0 when excluded. */
+  weight: number;
+  radius_source: string;
+}
+
+export interface ScalingResult {
+  summary: ScalingSummary;
+  furcationRows: FurcationRow[];
+  branchTaperRows: BranchTaperRow[];
+}
+
+export const RADIUS_RULE =
+  'parent: median radius of the first k reliable segments of the internode below the furcation, skipping the j nearest the joint; children: the same above it (k = radius_window_segments, j = joint_skip_segments); joint-adjacent segments only when nothing else is reliable';
+
+/**
+ * Branching-exponent, WBE and taper statistics of a network: the `scaling` block of summary.json
+ * plus the rows of furcations.csv.
+ *
+ * @param network segments with parent links; branch ids/orders are (re)computed by annotateNetwork
+ * @param options scaling options (partial; validated, defaults filled)
+ * @example const { summary } = analyseScaling(parseSegmentsCsv(text), { seed: 7 });
+ */
+export function analyseScaling(network: Network | AnnotatedNetwork, options?: Partial<ScalingOptionValues>): ScalingResult {
+  const opts = scalingOptions.resolve(options ?? {});
+  const ann = 'mainChild' in network && 'tree' in network ? (network as AnnotatedNetwork) : annotateNetwork(network);
+  const set = collectFurcations(ann, opts);
+  const taper = analyseTaper(ann, opts.min_taper_segments, opts.bootstrap_replicates, opts.confidence, streamRandom(opts.seed, 9));
+  return analyseFurcationSet(set, opts, { taper: taper.summary, branchTaperRows: taper.branchRows, radiusRule: RADIUS_RULE });
+}
+
+/**
+ * The statistics on prepared furcations (from a network or from field measurements).
+ * @param extra taper results and the radius rule text, when the source has them
+ */
+export function analyseFurcationSet(
+  set: FurcationSet,
+  opts: ScalingOptionValues,
+  extra: { taper: TaperSummary | null; branchTaperRows: BranchTaperRow[]; radiusRule: string },
+): ScalingResult {
+  const edges = parseEdges(opts.radius_class_edges_m);
+  const evaluated = evaluateFurcations(set, opts.min_radius_m, opts.exponent_max);
+  const used = evaluated.filter((f) => f.status === 'solved');
+  const B = opts.bootstrap_replicates;
+  const conf = opts.confidence;
+  const maxA = opts.exponent_max;
+
+  const main = exponentIntervals(set, used, B, conf, maxA, streamRandom(opts.seed, 0));
+
+  const excluded = Object.fromEntries(EXCLUSION_REASONS.map((r) => [r, 0])) as Record<ExclusionReason, number>;
+  for (const f of evaluated) if (f.status !== 'solved') excluded[f.status]++;
+
+  const byOrder: ByOrderRow[] = [];
+  const group = (grouping: ByOrderRow['grouping'], key: (f: EvaluatedFurcation) => string | null, stream: number): void => {
+    const keys = [...new Set(evaluated.map(key).filter((k): k is string => k !== null))];
+    keys.sort((a, b) => sortKey(a) - sortKey(b));
+    keys.forEach((k, gi) => {
+      const all = evaluated.filter((f) => key(f) === k);
+      const g = all.filter((f) => f.status === 'solved');
+      const est = exponentIntervals(set, g, B, conf, maxA, streamRandom(opts.seed, 100 * stream + gi), false);
+      byOrder.push({
+        grouping,
+        group: k,
+        n_used: g.length,
+        n_excluded: all.length - g.length,
+        estimate: finiteOrNull(est.estimate),
+        ci95: est.ci,
+        pooled: finiteOrNull(est.pooled),
+      });
+    });
+  };
+  group('branch_order', (f) => String(f.record.parentBranchOrder), 2);
+  group('strahler_order', (f) => String(f.record.parentStrahlerOrder), 3);
+  group('parent_radius_class', (f) => radiusClass(f.parentRadiusM, edges), 4);
+
+  const trend = [
+    trendTest('branch_order', used.map((f) => f.record.parentBranchOrder), used.map((f) => f.exponent), opts.permutations, streamRandom(opts.seed, 5)),
+    trendTest('strahler_order', used.map((f) => f.record.parentStrahlerOrder), used.map((f) => f.exponent), opts.permutations, streamRandom(opts.seed, 6)),
+    trendTest('log_parent_radius', used.map((f) => Math.log(f.parentRadiusM)), used.map((f) => f.exponent), opts.permutations, streamRandom(opts.seed, 7)),
+  ];
+
+  // WBE ratios need radii only, so every furcation with radii (not pre-excluded, above min radius) counts.
+  const withRadii = evaluated.filter((f) => f.status !== 'unreliable_segments' && f.status !== 'below_min_radius');
+  const orders = [...new Set(withRadii.map((f) => f.record.parentBranchOrder))].sort((a, b) => a - b);
+  const wbe = {
+    pooled: wbeWithInterval(withRadii, B, conf, streamRandom(opts.seed, 8)),
+    by_order: orders.map((o) => ({ branch_order: o, ...wbeRatios(withRadii.filter((f) => f.record.parentBranchOrder === o)) })),
+  };
+
+  const summary: ScalingSummary = {
+    exponent: {
+      estimate: finiteOrNull(main.estimate),
+      ci95: main.ci,
+      confidence: conf,
+      method: 'median over furcations; interval: bootstrap over furcations (deviations shrunk by spread_shrink) plus Monte Carlo radius errors',
+      huber: finiteOrNull(main.huber),
+      n_furcations: evaluated.length,
+      n_used: used.length,
+      n_excluded: evaluated.length - used.length,
+      excluded_by_reason: excluded,
+      n_radius_from_adjacent: used.filter((f) => f.record.radiusSource === 'adjacent').length,
+      spread_shrink: finiteOrNull(main.spreadShrink),
+      measurement_sd: finiteOrNull(main.measurementSd),
+      observed_sd: finiteOrNull(main.observedSd),
+    },
+    pooled: {
+      estimate: finiteOrNull(main.pooled),
+      ci95: main.pooledCi,
+      n_used: used.length,
+      method: 'least squares: minimise Σ_f (Σ_i (r_i/r_0)^a − 1)²; interval as for the median',
+    },
+    by_order: byOrder,
+    trend,
+    theory: theoryTable(theoryValues(opts.hydraulic_exponent_m, opts.metabolic_exponent_n), main.estimate, main.ci, main.pooledCi),
+    wbe,
+    taper: extra.taper,
+    radius_rule: extra.radiusRule,
+    options: opts,
+  };
+  return { summary, furcationRows: furcationRows(evaluated), branchTaperRows: extra.branchTaperRows };
+}
+
+function furcationRows(evaluated: EvaluatedFurcation[]): FurcationRow[] {
+  const used = evaluated.filter((f) => f.status === 'solved');
+  const inv = used.map((f) => (f.exponentVariance > 0 ? 1 / f.exponentVariance : NaN));
+  const allFinite = inv.length > 0 && inv.every((w) => Number.isFinite(w));
+  const total = allFinite ? inv.reduce((a, b) => a + b, 0) : used.length;
+  const weightOf = new Map<EvaluatedFurcation, number>();
+  used.forEach((f, k) => weightOf.set(f, allFinite ? inv[k] / total : 1 / total));
+  const join = (v: number[]) => v.join(';');
+  return evaluated.map((f) => ({
+    furcation_id: f.record.id,
+    parent_segment_id: f.record.parentSegmentId,
+    child_segment_ids: join(f.record.childSegmentIds),
+    n_children: f.record.childSamples.length,
+    parent_branch_order: f.record.parentBranchOrder,
+    parent_strahler_order: f.record.parentStrahlerOrder,
+    parent_radius_m: f.parentRadiusM,
+    parent_radius_se_m: f.parentSeM,
+    child_radii_m: join(f.childRadiiM),
+    child_radii_se_m: join(f.childSeM),
+    exponent: f.exponent,
+    status: f.status,
+    weight: weightOf.get(f) ?? 0,
+    radius_source: f.record.radiusSource,
+  }));
+}
+
+/** Parse "0.01,0.025" into increasing positive edges. */
+export function parseEdges(text: string): number[] {
+  const edges = text.trim() === '' ? [] : text.split(',').map((s) => Number(s.trim()));
+  for (let i = 0; i < edges.length; i++) {
+    if (!(edges[i] > 0) || (i > 0 && !(edges[i] > edges[i - 1]))) {
+      throw new XylemapError(`radius class edges must be increasing numbers > 0 m, got "${text}"`, {
+        stage: 'scaling',
+        option: 'scaling.radius_class_edges_m',
+        hint: 'write them like 0.01,0.025,0.05,0.1',
+      });
+    }
+  }
+  return edges;
+}
+
+/** Class label of a radius, "lo-hi" in m ("<lo" / ">=hi" at the ends); null for NaN. */
+export function radiusClass(radiusM: number, edges: number[]): string | null {
+  if (!Number.isFinite(radiusM)) return null;
+  if (edges.length === 0) return 'all';
+  if (radiusM < edges[0]) return `<${edges[0]}`;
+  for (let i = 1; i < edges.length; i++) if (radiusM < edges[i]) return `${edges[i - 1]}-${edges[i]}`;
+  return `>=${edges[edges.length - 1]}`;
+}
+
+/** Numeric sort key for group labels: the first number in the label ("<" classes first). */
+function sortKey(label: string): number {
+  if (label.startsWith('<')) return -Infinity;
+  const v = parseFloat(label.replace(/^>=/, ''));
+  return Number.isFinite(v) ? v : Infinity;
+}
+
+/**
+ * The same statistics on field-measured furcation diameters (see measured.ts for the table);
+ * there is no network, so no taper block.
+ */
+export function analyseMeasuredFurcations(set: FurcationSet, options?: Partial<ScalingOptionValues>): ScalingResult {
+  const opts = scalingOptions.resolve(options ?? {});
+  return analyseFurcationSet(set, opts, { taper: null, branchTaperRows: [], radiusRule: 'measured: radius = diameter_m / 2 as given, SE = diameter_se_m / 2' });
+}
