@@ -42,15 +42,24 @@ function makeTrees(dir: string, n: number, stepDeg: number): { manifest: string;
   return { manifest, points };
 }
 
-async function timedBatch(manifest: string, out: string, workers: number): Promise<{ seconds: number; failed: number; meanTreeSeconds: number }> {
+async function timedBatch(
+  manifest: string,
+  out: string,
+  workers: number,
+): Promise<{ seconds: number; failed: number; meanTreeSeconds: number; coresBusy: number; cpuSecondsPerTree: number }> {
   const pool = createTreePool(workers);
   try {
     // Warm the threads (module loading) so the figure is the steady per-tree cost.
     await Promise.all(Array.from({ length: workers }, () => pool.noop()));
     const t0 = performance.now();
+    const cpu0 = process.cpuUsage();
     const r = await runBatchFolder({ manifestPath: manifest, outDir: out, workers, processTree: pool.processTree });
+    const cpu = process.cpuUsage(cpu0);
     const meanTreeSeconds = r.trees.reduce((a, t) => a + t.seconds, 0) / Math.max(1, r.trees.length);
-    return { seconds: (performance.now() - t0) / 1000, failed: r.counts.failed, meanTreeSeconds };
+    const seconds = (performance.now() - t0) / 1000;
+    // CPU time of all threads of this process over wall time: how many cores the batch kept busy.
+    const cpuSeconds = (cpu.user + cpu.system) / 1e6;
+    return { seconds, failed: r.counts.failed, meanTreeSeconds, coresBusy: cpuSeconds / seconds, cpuSecondsPerTree: cpuSeconds / Math.max(1, r.trees.length) };
   } finally {
     await pool.close();
   }
@@ -72,7 +81,7 @@ export async function main(): Promise<void> {
     const two = await timedBatch(manifest, join(dir, 'out-2'), 2);
     const rate = (s: number): string => ((n / s) * 60).toFixed(1);
     const line = (w: number, r: typeof one): string =>
-      `  ${w} worker${w > 1 ? 's' : ' '}: ${r.seconds.toFixed(1)} s, ${rate(r.seconds)} trees/min, ${r.meanTreeSeconds.toFixed(2)} s per tree in flight, ${r.failed} failed`;
+      `  ${w} worker${w > 1 ? 's' : ' '}: ${r.seconds.toFixed(1)} s, ${rate(r.seconds)} trees/min, ${r.meanTreeSeconds.toFixed(2)} s per tree in flight, ${r.coresBusy.toFixed(2)} cores busy, ${r.cpuSecondsPerTree.toFixed(2)} CPU s per tree, ${r.failed} failed`;
     console.log(line(1, one));
     console.log(line(2, two));
     console.log(`load average after the runs: ${loadavg().map((v) => v.toFixed(2)).join(' ')}`);

@@ -1,4 +1,4 @@
-// Bundle the report's 3D viewer (core/report/viewer/main.ts + three.js) into one minified script,
+// Bundle the report's 3D viewer (core/report/viewer/browser/main.ts + three.js) into one minified script,
 // dist/report-viewer.js, which the report generator inlines into every report.html.
 import { build } from 'esbuild';
 import { dirname, join } from 'node:path';
@@ -9,7 +9,7 @@ const root = join(dirname(fileURLToPath(import.meta.url)), '..');
 /** Bundle the viewer to `outfile` (default dist/report-viewer.js); returns the output path. */
 export async function buildViewer(outfile = join(root, 'dist/report-viewer.js')) {
   await build({
-    entryPoints: [join(root, 'core/report/viewer/main.ts')],
+    entryPoints: [join(root, 'core/report/viewer/browser/main.ts')],
     outfile,
     bundle: true,
     minify: true,

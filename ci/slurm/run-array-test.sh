@@ -43,8 +43,12 @@ if ! out=$(bash "$ROOT/ci/slurm/start-slurm.sh" 2>&1); then
 fi
 echo "$out" | sed 's/^/  | /'
 
+# A small inventory (one row per stem; an unscanned species too) so the upscaling is compared as well.
+INVENTORY="$WORK/plots.csv"
+printf 'plot_id,plot_area_m2,species,dbh_m\nA,400,oak,0.32\nA,400,oak,0.12\nA,400,birch,0.25\nB,250,spruce,0.41\nB,250,oak,0.55\n' > "$INVENTORY"
+
 say "local batch (2 workers)"
-$XY batch "$MANIFEST" --out "$WORK/local" --workers 2 >/dev/null
+$XY batch "$MANIFEST" --out "$WORK/local" --workers 2 --inventory "$INVENTORY" >/dev/null
 
 say "emit and submit a 4-task array"
 $XY batch "$MANIFEST" --out "$WORK/array" --emit-slurm --shard-count 4 --workers 1 --job-mem 2G --job-time 00:20:00 >/dev/null
@@ -58,12 +62,14 @@ sacct_state=$(scontrol show job "$jobid" 2>/dev/null | grep -o 'JobState=[A-Z]*'
 [ -n "$sacct_state" ] && say "states: $sacct_state"
 
 say "merge the shard folders"
-$XY merge "$WORK"/array/shard-* --out "$WORK/array/merged" >/dev/null
+$XY merge "$WORK"/array/shard-* --out "$WORK/array/merged" --inventory "$INVENTORY" >/dev/null
 
 status=0
 same=0
 differ=0
-for f in stand.csv species.csv species-pairs.csv species.json stand.json failures.csv; do
+files="stand.csv species.csv species-pairs.csv species.json stand.json failures.csv"
+[ -f "$WORK/local/plots.csv" ] && files="$files plots.csv stems.csv"
+for f in $files; do
   if cmp -s "$WORK/local/$f" "$WORK/array/merged/$f"; then
     say "identical: $f"
     same=$((same + 1))

@@ -35,7 +35,7 @@ function positiveInt(text: string | undefined, flag: string): number | undefined
   if (text === undefined) return undefined;
   const n = Number(text);
   if (!(Number.isInteger(n) && n >= 1)) {
-    throw new XylemapError(`${flag} must be a whole number ≥ 1, got "${text}"`, { option: flag.replace(/^--/, '') });
+    throw new XylemapError(`${flag} must be a whole number ≥ 1, got "${text}"`, { stage: 'batch', option: flag.replace(/^--/, '') });
   }
   return n;
 }
@@ -91,7 +91,7 @@ function emitJobFiles(manifest: string, flags: BatchFlags, workers: number): Rec
     written.push(p);
   }
   if (flags.emitK8s) {
-    const p = join(out, 'xylemap-batch-job.yaml');
+    const p = join(out, 'xylemap-batch.yaml');
     writeFileAtomic(
       p,
       formatK8sJob({
@@ -125,7 +125,7 @@ export function register(program: Command): void {
     .option('--shard <i/n>', 'run only shard i of n (0-based; tree goes to shard FNV-1a(tree_id) mod n); default from SLURM_ARRAY_TASK_ID or JOB_COMPLETION_INDEX')
     .option('--shard-count <n>', 'number of shards when the index comes from the environment (Kubernetes), or the array size for --emit-*')
     .option('--emit-slurm', 'write <out>/xylemap-batch.sbatch (an sbatch array script) instead of processing')
-    .option('--emit-k8s', 'write <out>/xylemap-batch-job.yaml (a Kubernetes indexed Job) instead of processing')
+    .option('--emit-k8s', 'write <out>/xylemap-batch.yaml (a Kubernetes indexed Job) instead of processing')
     .option('--job-time <HH:MM:SS>', 'wall-time limit per array task (--emit-slurm)', '04:00:00')
     .option('--job-mem <size>', 'memory per array task, e.g. 8G (--emit-*; default 4G per worker)')
     .option('--partition <name>', 'Slurm partition (--emit-slurm)')

@@ -1,4 +1,4 @@
-import { existsSync, readFileSync } from 'node:fs';
+import { existsSync, readFileSync, statSync } from 'node:fs';
 import { dirname, join, resolve } from 'node:path';
 import { Option, type Command } from 'commander';
 import { analyseHydraulics, HYDRAULICS_CAUTION, HYDRAULICS_COLUMNS } from '../../core/hydraulics/analyse.js';
@@ -16,18 +16,15 @@ import { withFile, XylemapError } from '../../core/util/errors.js';
 export function register(program: Command): void {
   const cmd = program
     .command('hydraulics')
-    .argument('<segments>', 'segments.csv of one tree (from reconstruct or simulate)')
+    .argument('<segments>', 'segments.csv of one tree (from reconstruct or simulate), or the folder holding it')
     .summary('conduit sizes, whole-tree conductance, water potentials and safety margin (model estimates)')
     .description(
-      `Estimate conduit sizes, segment and whole-tree hydraulic conductance, steady water potentials,
-embolism (PLC), the critical transpiration and the hydraulic safety margin of a tree network.
-
-CAUTION: ${HYDRAULICS_CAUTION}
-
-Writes <out>/segments.csv with the columns ${HYDRAULICS_COLUMNS.join(', ')}
-and the "hydraulics" block of <out>/summary.json (merged into an existing one).
-Built-in species presets: ${BUILTIN_PRESETS.join(', ')}; --preset-file FILE uses your own YAML
-(same keys as core/hydraulics/presets/*.yaml). Precedence: defaults < --config < flags.`,
+      [
+        'Estimate conduit sizes, segment and whole-tree hydraulic conductance, steady water potentials, embolism (PLC), the critical transpiration and the hydraulic safety margin of a tree network.',
+        `CAUTION: ${HYDRAULICS_CAUTION}`,
+        `Writes <out>/segments.csv with the added columns ${HYDRAULICS_COLUMNS.join(', ')}, and the "hydraulics" block of <out>/summary.json (merged into an existing one).`,
+        `Built-in species presets: ${BUILTIN_PRESETS.join(', ')}. --preset-file FILE uses your own YAML with the keys of core/hydraulics/presets/*.yaml. Precedence: defaults < --config < flags.`,
+      ].join('\n\n'),
     )
     .option('--config <file>', 'YAML configuration; its "hydraulics" mapping sets the options below')
     .option('--out <dir>', 'output folder (default: the folder of the input)')
@@ -39,7 +36,9 @@ Built-in species presets: ${BUILTIN_PRESETS.join(', ')}; --preset-file FILE uses
     cmd.addOption(option);
   }
   cmd.action((segmentsPath: string, flags: Record<string, unknown>, self: Command) => {
-    const input = resolve(segmentsPath);
+    // A tree's output folder works as well as its segments.csv.
+    const given = resolve(segmentsPath);
+    const input = existsSync(given) && statSync(given).isDirectory() ? join(given, 'segments.csv') : given;
     const outDir = resolve((flags.out as string | undefined) ?? dirname(input));
     const config = flags.config ? readConfig(flags.config as string) : {};
     const fromFlags: Record<string, unknown> = {};
@@ -139,7 +138,11 @@ function mergeSummary(existing: Record<string, unknown> | null, block: Record<st
 }
 
 function textReport(s: Record<string, unknown>, outputs: string[]): string {
-  const num = (v: unknown, digits = 3): string => (typeof v === 'number' && Number.isFinite(v) ? v.toPrecision(digits) : 'n/a');
+  const num = (v: unknown, digits = 3): string => {
+    if (typeof v !== 'number' || !Number.isFinite(v)) return 'n/a';
+    const a = Math.abs(v);
+    return a !== 0 && (a < 1e-2 || a >= 1e5) ? v.toExponential(digits - 1) : v.toPrecision(digits);
+  };
   const whatIf = s.what_if as { da_vinci: Record<string, number>; murray: Record<string, number> };
   const lines = [
     `CAUTION: ${HYDRAULICS_CAUTION}`,

@@ -16,7 +16,7 @@ export function register(program: Command): void {
     .description('join the folders of a sharded `xylemap batch` into one stand table, species comparison and plot upscaling')
     .argument('<folders...>', 'output folders of the shards (each holds batch.json and trees/)')
     .requiredOption('--out <dir>', 'folder for stand.csv, species.csv, species-pairs.csv, species.json, stand.json, failures.csv (+ plots.csv, stems.csv)')
-    .option('--config <file>', 'YAML configuration; its batch: block sets the statistics (use the one the shards used)')
+    .option('--config <file>', 'YAML configuration whose batch: block sets the statistics (default: the batch options the shards recorded)')
     .option('--inventory <file>', 'CSV plot_id, plot_area_m2, species, dbh_m (one row per stem) to upscale conductance per ground area')
     .option('--json', 'print one JSON object')
     .action((folders: string[], flags: MergeFlags) => {

@@ -55,7 +55,9 @@ Precedence: defaults < --config < flags.`,
     if (flags.out) {
       const outDir = resolve(flags.out as string);
       const summaryPath = join(outDir, 'summary.json');
-      const merged = { ...(existingSummary(summaryPath) ?? { schema: 'xylemap.summary/1' }), scaling: result.summary };
+      const base = existingSummary(summaryPath) ?? { schema: 'xylemap.summary/1' };
+      const others = Array.isArray(base.warnings) ? base.warnings.filter((w) => !(typeof w === 'string' && w.startsWith('scaling: '))) : [];
+      const merged = { ...base, scaling: result.summary, warnings: [...others, ...result.summary.warnings.map((w) => `scaling: ${w}`)] };
       const furcationsPath = join(outDir, 'furcations.csv');
       const csv = formatFurcationsCsv(result.furcationRows);
       writeFileAtomic(furcationsPath, csv);
@@ -182,6 +184,7 @@ function textReport(s: ScalingSummary, written: string[]): string {
       `pipe model: area ∝ tips^${num(t.area_vs_tips_supplied.exponent)} ${ci(t.area_vs_tips_supplied.ci95)}, area ∝ length supplied^${num(t.area_vs_length_supplied.exponent)} ${ci(t.area_vs_length_supplied.ci95)} (pipe model: 1)`,
     );
   }
+  for (const w of s.warnings) lines.push(`warning: ${w}`);
   if (written.length > 0) lines.push(`wrote ${written.join(', ')}`);
   return `${lines.join('\n')}\n`;
 }

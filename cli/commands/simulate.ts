@@ -1,3 +1,4 @@
+import { availableParallelism } from 'node:os';
 import { join, resolve } from 'node:path';
 import { Option, type Command } from 'commander';
 import { writeFileAtomic } from '../../core/io/atomic.js';
@@ -7,7 +8,7 @@ import { formatSegmentsCsv } from '../../core/io/segments-csv.js';
 import { describeRule, type OptionSpecs, type StageOptions } from '../../core/options/declare.js';
 import { simulateOptions } from '../../core/simulate/options.js';
 import { PRESETS, presetOptions } from '../../core/simulate/presets.js';
-import { simulate, type VirtualScan } from '../../core/simulate/simulate.js';
+import { simulateParallel, type VirtualScan } from '../../core/simulate/simulate.js';
 import { XylemapError } from '../../core/util/errors.js';
 
 /**
@@ -34,15 +35,20 @@ Precedence: defaults < --preset < --config (its "simulate" mapping) < flags.`,
     .option('--preset <name>', `starting parameters: ${Object.keys(PRESETS).join(', ')}`)
     .option('--config <file>', 'YAML configuration; its "simulate" mapping sets the options below')
     .option('--las <file>', 'write the scan here instead of <out>/scan.las')
+    .option('--threads <n>', 'worker threads for the scan positions (same result for any number; default: available cores)')
     .option('--json', 'print one JSON object to stdout instead of text');
   const attributes = addDeclaredFlags(cmd, simulateOptions);
-  cmd.action((flags: Record<string, unknown>, self: Command) => {
+  cmd.action(async (flags: Record<string, unknown>, self: Command) => {
+    const threads = flags.threads === undefined ? availableParallelism() : Number(flags.threads);
+    if (!(Number.isInteger(threads) && threads >= 1)) {
+      throw new XylemapError(`--threads must be a whole number ≥ 1, got "${String(flags.threads)}"`, { stage: 'simulate', hint: 'e.g. --threads 2' });
+    }
     const preset = typeof flags.preset === 'string' ? flags.preset : null;
     const fromPreset = preset ? presetOptions(preset) : {};
     const config = flags.config ? configBlock(readConfigFile(flags.config as string), flags.config as string, 'simulate') : {};
     const options = simulateOptions.resolve({ ...fromPreset, ...config, ...givenFlags(self, flags, attributes) });
     const started = performance.now();
-    const scan = simulate(options, preset);
+    const scan = await simulateParallel(options, preset, threads);
     const seconds = (performance.now() - started) / 1000;
     const outDir = resolve(flags.out as string);
     const lasPath = flags.las ? resolve(flags.las as string) : join(outDir, 'scan.las');
@@ -122,6 +128,10 @@ function textReport(scan: VirtualScan, seconds: number, outputs: string[]): stri
     `  scan     ${s.positions.length} positions, ${s.rays} rays, ${s.points} points (${Object.entries(s.points_per_label)
       .map(([k, n]) => `${k} ${n}`)
       .join(', ')})`,
+    `  coverage (share of true axis length with returns in 5 cm bins; share of circumference seen; returns per m):`,
+    ...s.coverage_by_radius_class
+      .filter((c) => c.true_length_m > 0)
+      .map((c) => `    ${c.radius_class.padEnd(8)} ${f(c.true_length_m, 1).padStart(8)} m  ${(100 * (c.covered_fraction ?? 0)).toFixed(1).padStart(5)} %  arc ${(100 * (c.arc_fraction ?? 0)).toFixed(1).padStart(5)} %  ${f(c.points_per_m, 0).padStart(6)} /m`),
     `wrote ${outputs.join(', ')}`,
   ];
   return `${lines.join('\n')}\n`;

@@ -50,7 +50,7 @@ export function formatSlurmScript(s: ArrayJobSpec): string {
   const lines = [
     '#!/bin/bash',
     `# xylemap batch as a Slurm array job: ${s.shards} task(s), one shard of the manifest each.`,
-    `# Submit:  jobid=$(sbatch --parsable ${q(`${s.jobName}.sbatch`)})`,
+    `# Submit:  jobid=$(sbatch --parsable ${q(`${out}/${s.jobName}.sbatch`)})`,
     `# Merge when all tasks are done:`,
     `#   sbatch --dependency=afterany:$jobid --wrap ${q(merge.join(' '))}`,
     `#SBATCH --job-name=${s.jobName}`,
@@ -90,10 +90,14 @@ export interface K8sJobSpec extends ArrayJobSpec {
   parallelism: number;
 }
 
-/** An indexed Job (completionMode: Indexed): completion index i runs shard i. */
+/**
+ * An indexed Job (completionMode: Indexed): completion index i runs shard i. The index reaches the
+ * command line through the downward API (annotation batch.kubernetes.io/job-completion-index →
+ * XYLEMAP_SHARD_INDEX), which Kubernetes expands in `args` as $(XYLEMAP_SHARD_INDEX).
+ */
 export function formatK8sJob(s: K8sJobSpec): string {
   const out = s.out.replace(/\/+$/, '');
-  const args = ['batch', s.manifest, '--out', `${out}/shard-$(JOB_COMPLETION_INDEX)`, '--shard-count', String(s.shards), '--workers', String(s.workers)];
+  const args = ['batch', s.manifest, '--out', `${out}/shard-$(XYLEMAP_SHARD_INDEX)`, '--shard', `$(XYLEMAP_SHARD_INDEX)/${s.shards}`, '--workers', String(s.workers)];
   if (s.config) args.push('--config', s.config);
   const mergeArgs = ['merge', `${out}/shard-*`, '--out', `${out}/merged`];
   if (s.inventory) mergeArgs.push('--inventory', s.inventory);
@@ -117,7 +121,13 @@ export function formatK8sJob(s: K8sJobSpec): string {
               image: s.image,
               command: s.xylemap.split(/\s+/),
               args,
-              env: [{ name: 'XYLEMAP_SHARD_COUNT', value: String(s.shards) }],
+              env: [
+                {
+                  name: 'XYLEMAP_SHARD_INDEX',
+                  valueFrom: { fieldRef: { fieldPath: "metadata.annotations['batch.kubernetes.io/job-completion-index']" } },
+                },
+                { name: 'XYLEMAP_SHARD_COUNT', value: String(s.shards) },
+              ],
               resources: {
                 requests: { cpu: String(s.workers), memory: k8sMemory(s.memory) },
                 limits: { cpu: String(s.workers), memory: k8sMemory(s.memory) },
@@ -132,7 +142,7 @@ export function formatK8sJob(s: K8sJobSpec): string {
   };
   const head = [
     `# xylemap batch as a Kubernetes indexed Job: ${s.shards} completion(s), completion index i runs shard i.`,
-    `# Apply: kubectl apply -f ${s.jobName}.yaml ; wait: kubectl wait --for=condition=complete job/${s.jobName} --timeout=24h`,
+    `# Apply: kubectl apply -f ${s.jobName}.yaml (the claim must hold the manifest, its clouds at paths relative to it, and the config); wait: kubectl wait --for=condition=complete job/${s.jobName} --timeout=24h`,
     `# Merge (e.g. in a one-off pod with the same volume): ${[s.xylemap, ...mergeArgs].join(' ')}`,
     '',
   ];

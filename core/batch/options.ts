@@ -55,6 +55,17 @@ export const batchOptions = defineOptions('batch', 'stand table, species compari
     default: 'scan',
     help: 'DBH used in the K–DBH fit: from the reconstruction, the manifest field_dbh_m, or field when given else scan',
   },
+  upscale_bias_correction: {
+    type: 'boolean',
+    default: true,
+    help: 'multiply K predicted from the log-log fit by exp(s²/2) so plot sums estimate the mean, not the median (Sprugel 1983)',
+  },
+  upscale_interval: {
+    type: 'enum',
+    values: ['prediction', 'fit'] as const,
+    default: 'prediction',
+    help: 'plot interval: prediction (fit uncertainty plus each stem\'s scatter about the fit) or fit (fit uncertainty only)',
+  },
   max_plausible_dbh_m: {
     type: 'number',
     default: 5,

@@ -5,10 +5,9 @@
 import { formatCsv } from '../io/csv.js';
 import type { BatchOptionValues } from './options.js';
 import { compareSpecies, formatSpeciesCsv, formatSpeciesPairsCsv } from './species.js';
-import { inManifestOrder, standRow, type TreeRecord } from './stand.js';
+import { formatStandCsv, inManifestOrder, standRow, type TreeRecord } from './stand.js';
 import { formatPlotsCsv, formatStemsCsv, upscaleInventory, type InventoryStem, type Upscaling } from './upscale.js';
 import { XylemapError } from '../util/errors.js';
-import { formatStandCsv } from './stand.js';
 
 export interface FailedTree {
   index: number;
@@ -97,10 +96,17 @@ export function standOutputs(
         dbh_m: finite(r.dbhM),
         height_m: finite(r.heightM),
         wood_volume_m3: finite(r.woodVolumeM3),
+        total_length_m: finite(r.totalLengthM),
         segment_count: finite(r.segmentCount),
+        furcation_count: finite(r.furcationCount),
+        max_branch_order: finite(r.maxBranchOrder),
+        reliable_fraction: finite(r.reliableFraction),
         exponent: finite(r.exponent),
         exponent_ci95: [finite(r.exponentCiLow), finite(r.exponentCiHigh)],
         tree_conductance_kg_s_mpa: finite(r.treeConductanceKgPerSPerMPa),
+        conductance_per_basal_area_kg_s_mpa_m2: finite(r.conductancePerBasalAreaKgPerSPerMPaPerM2),
+        leaf_specific_conductance_kg_s_mpa_m2: finite(r.leafSpecificConductanceKgPerSPerMPaPerM2),
+        critical_transpiration_kg_s: finite(r.criticalTranspirationKgPerS),
         min_water_potential_mpa: finite(r.minWaterPotentialMPa),
         safety_margin_mpa: finite(r.safetyMarginMPa),
         warning_count: r.warningCount,

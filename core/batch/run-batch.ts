@@ -66,7 +66,6 @@ export async function runBatch(jobs: readonly TreeJob[], runner: BatchRunner): P
   const start = now();
   const results: TreeResult[] = new Array(jobs.length);
   const counts = { done: 0, skipped: 0, failed: 0 };
-  let processedSeconds = 0;
   let processed = 0;
   const report = (): void => {
     if (!runner.onProgress) return;
@@ -104,7 +103,6 @@ export async function runBatch(jobs: readonly TreeJob[], runner: BatchRunner): P
       }
       const seconds = (now() - t0) / 1000;
       processed++;
-      processedSeconds += seconds;
       if (outcome.ok) {
         results[i] = { index: job.index, treeId: job.treeId, status: 'done', seconds };
         counts.done++;

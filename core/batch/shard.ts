@@ -38,6 +38,7 @@ export function parseShardFlag(text: string): ShardSpec {
   const count = m ? Number(m[2]) : NaN;
   if (!(count >= 1) || !(index >= 0 && index < count)) {
     throw new XylemapError(`--shard must be "i/n" with 0 ≤ i < n (0-based), got "${text}"`, {
+      stage: 'batch',
       option: 'shard',
       hint: 'e.g. --shard 0/4 … --shard 3/4 for four shards',
     });
@@ -65,7 +66,7 @@ export function shardFromEnv(env: Record<string, string | undefined>, shardCount
       throw new XylemapError(
         `Slurm array variables do not give a shard: SLURM_ARRAY_TASK_ID=${env.SLURM_ARRAY_TASK_ID}, ` +
           `SLURM_ARRAY_TASK_MIN=${env.SLURM_ARRAY_TASK_MIN}, SLURM_ARRAY_TASK_COUNT=${env.SLURM_ARRAY_TASK_COUNT}`,
-        { option: 'shard', hint: 'submit a contiguous array (e.g. --array=0-3, no step) or pass --shard i/n' },
+        { stage: 'batch', option: 'shard', hint: 'submit a contiguous array (e.g. --array=0-3, no step) or pass --shard i/n' },
       );
     }
     return { index, count, source: 'slurm' };
@@ -76,7 +77,7 @@ export function shardFromEnv(env: Record<string, string | undefined>, shardCount
     if (!(count >= 1) || !(index >= 0 && index < count)) {
       throw new XylemapError(
         `Kubernetes completion index ${env.JOB_COMPLETION_INDEX} needs a shard count above it, got ${Number.isNaN(count) ? 'none' : count}`,
-        { option: 'shard-count', hint: 'pass --shard-count N (the Job\'s completions) or set XYLEMAP_SHARD_COUNT' },
+        { stage: 'batch', option: 'shard-count', hint: 'pass --shard-count N (the Job\'s completions) or set XYLEMAP_SHARD_COUNT' },
       );
     }
     return { index, count, source: 'kubernetes' };

@@ -77,7 +77,10 @@ export function fitDbh(t: TreeRecord, source: SpeciesStatsOptions['fit_dbh_sourc
   return Number.isFinite(t.fieldDbhM) ? t.fieldDbhM : scan;
 }
 
-/** Numeric leaves of summary.scaling.wbe, one level of nesting flattened with "_" (arrays skipped). */
+/**
+ * Numeric leaves of summary.scaling.wbe, one level of nesting flattened with "_" (arrays such as
+ * by_order skipped); the tree-level `pooled` block keeps its own key names (radius_ratio_beta …).
+ */
 export function wbeQuantities(summary: unknown): Record<string, number> {
   const out: Record<string, number> = {};
   const wbe = summary && typeof summary === 'object' ? (summary as { scaling?: { wbe?: unknown } }).scaling?.wbe : undefined;
@@ -86,7 +89,7 @@ export function wbeQuantities(summary: unknown): Record<string, number> {
     if (typeof v === 'number' && Number.isFinite(v)) out[k] = v;
     else if (v && typeof v === 'object' && !Array.isArray(v)) {
       for (const [k2, v2] of Object.entries(v as Record<string, unknown>)) {
-        if (typeof v2 === 'number' && Number.isFinite(v2)) out[`${k}_${k2}`] = v2;
+        if (typeof v2 === 'number' && Number.isFinite(v2)) out[k === 'pooled' ? k2 : `${k}_${k2}`] = v2;
       }
     }
   }

@@ -27,6 +27,16 @@ export function numberAt(obj: unknown, path: readonly (string | number)[]): numb
   return typeof v === 'number' && Number.isFinite(v) ? v : NaN;
 }
 
+/** A string at a key path of a JSON object, "" when absent. */
+export function stringAt(obj: unknown, path: readonly string[]): string {
+  let v: unknown = obj;
+  for (const k of path) {
+    if (v === null || typeof v !== 'object') return '';
+    v = (v as Record<string, unknown>)[k];
+  }
+  return typeof v === 'string' ? v : '';
+}
+
 export interface StandRow {
   treeId: string;
   species: string;
@@ -37,13 +47,20 @@ export interface StandRow {
   dbhM: number;
   heightM: number;
   woodVolumeM3: number;
+  totalLengthM: number;
   segmentCount: number;
+  furcationCount: number;
+  maxBranchOrder: number;
+  reliableFraction: number;
   exponent: number;
   exponentCiLow: number;
   exponentCiHigh: number;
   exponentNUsed: number;
   exponentNExcluded: number;
   treeConductanceKgPerSPerMPa: number;
+  conductancePerBasalAreaKgPerSPerMPaPerM2: number;
+  leafSpecificConductanceKgPerSPerMPaPerM2: number;
+  criticalTranspirationKgPerS: number;
   minWaterPotentialMPa: number;
   safetyMarginMPa: number;
   warningCount: number;
@@ -57,19 +74,27 @@ export function standRow(t: TreeRecord): StandRow {
     treeId: t.treeId,
     species: t.species,
     plot: t.plot,
-    preset: t.preset,
+    // The preset the tree was run with: the manifest's, else what the hydraulics stage reports.
+    preset: t.preset || stringAt(s, ['hydraulics', 'preset']),
     file: t.file,
     fieldDbhM: t.fieldDbhM,
     dbhM: numberAt(s, ['tree', 'dbh_m']),
     heightM: numberAt(s, ['tree', 'height_m']),
     woodVolumeM3: numberAt(s, ['tree', 'wood_volume_m3']),
+    totalLengthM: numberAt(s, ['tree', 'total_length_m']),
     segmentCount: numberAt(s, ['tree', 'segment_count']),
+    furcationCount: numberAt(s, ['tree', 'furcation_count']),
+    maxBranchOrder: numberAt(s, ['tree', 'max_branch_order']),
+    reliableFraction: numberAt(s, ['reliability', 'reliable_fraction']),
     exponent: numberAt(s, ['scaling', 'exponent', 'estimate']),
     exponentCiLow: numberAt(s, ['scaling', 'exponent', 'ci95', 0]),
     exponentCiHigh: numberAt(s, ['scaling', 'exponent', 'ci95', 1]),
     exponentNUsed: numberAt(s, ['scaling', 'exponent', 'n_used']),
     exponentNExcluded: numberAt(s, ['scaling', 'exponent', 'n_excluded']),
     treeConductanceKgPerSPerMPa: numberAt(s, ['hydraulics', 'tree_conductance_kg_s_mpa']),
+    conductancePerBasalAreaKgPerSPerMPaPerM2: numberAt(s, ['hydraulics', 'conductance_per_basal_area_kg_s_mpa_m2']),
+    leafSpecificConductanceKgPerSPerMPaPerM2: numberAt(s, ['hydraulics', 'leaf_specific_conductance_kg_s_mpa_m2']),
+    criticalTranspirationKgPerS: numberAt(s, ['hydraulics', 'critical_transpiration_kg_s']),
     minWaterPotentialMPa: numberAt(s, ['hydraulics', 'min_water_potential_mpa']),
     safetyMarginMPa: numberAt(s, ['hydraulics', 'safety_margin_mpa']),
     warningCount: Array.isArray(warnings) ? warnings.length : 0,
@@ -86,13 +111,20 @@ export const STAND_COLUMNS = [
   'dbh_m',
   'height_m',
   'wood_volume_m3',
+  'total_length_m',
   'segment_count',
+  'furcation_count',
+  'max_branch_order',
+  'reliable_fraction',
   'exponent',
   'exponent_ci95_low',
   'exponent_ci95_high',
   'exponent_n_used',
   'exponent_n_excluded',
   'tree_conductance_kg_s_mpa',
+  'conductance_per_basal_area_kg_s_mpa_m2',
+  'leaf_specific_conductance_kg_s_mpa_m2',
+  'critical_transpiration_kg_s',
   'min_water_potential_mpa',
   'safety_margin_mpa',
   'warning_count',
@@ -120,13 +152,20 @@ export function formatStandCsv(records: readonly TreeRecord[]): string {
     cellNumber(r.dbhM),
     cellNumber(r.heightM),
     cellNumber(r.woodVolumeM3),
+    cellNumber(r.totalLengthM),
     cellNumber(r.segmentCount),
+    cellNumber(r.furcationCount),
+    cellNumber(r.maxBranchOrder),
+    cellNumber(r.reliableFraction),
     cellNumber(r.exponent),
     cellNumber(r.exponentCiLow),
     cellNumber(r.exponentCiHigh),
     cellNumber(r.exponentNUsed),
     cellNumber(r.exponentNExcluded),
     cellNumber(r.treeConductanceKgPerSPerMPa),
+    cellNumber(r.conductancePerBasalAreaKgPerSPerMPaPerM2),
+    cellNumber(r.leafSpecificConductanceKgPerSPerMPaPerM2),
+    cellNumber(r.criticalTranspirationKgPerS),
     cellNumber(r.minWaterPotentialMPa),
     cellNumber(r.safetyMarginMPa),
     String(r.warningCount),

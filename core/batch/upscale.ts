@@ -1,9 +1,16 @@
 /**
  * Inventory upscaling: apply the fitted K = c·DBH^d to every inventoried stem (scanned or not) and
- * sum per plot, per unit ground area. The interval propagates the uncertainty of the fits by a
- * case bootstrap: the scanned trees behind each fit are resampled with replacement, the fit is
- * redone, and every plot total recomputed; the percentile interval of those totals is reported.
- * It covers the fit's uncertainty, not the scatter of single trees about the fit.
+ * sum per plot, per unit ground area.
+ *
+ * Point estimate: a fit on logarithms predicts the median K at a DBH; with the bias correction the
+ * prediction is multiplied by exp(s²/2) (s = residual sd of ln K), the lognormal mean, so that sums
+ * over stems are unbiased (Baskerville 1972, Can. J. For. Res. 2:49; Sprugel 1983, Ecology 64:209).
+ *
+ * Interval: a case bootstrap — the scanned trees behind each fit are resampled with replacement,
+ * the fit redone, and every plot total recomputed; the percentile interval of the totals is
+ * reported. With `prediction` each stem also gets its own lognormal scatter exp(s_b·z) about the
+ * replicate's fit (the plot's actual stems are not the fit's mean stems); with `fit` only the fit
+ * varies, an interval for the expected total.
  */
 import { parseCsv } from '../io/csv.js';
 import { formatCsv } from '../io/csv.js';
@@ -109,6 +116,8 @@ export interface PlotEstimate {
 export interface Upscaling {
   confidence: number;
   method: string;
+  biasCorrection: boolean;
+  interval: string;
   bootstrapReplicates: number;
   /** Replicates whose refit failed (e.g. all resampled DBH equal) and were left out. */
   bootstrapFailed: number;
@@ -138,9 +147,21 @@ function chooseFit(species: string, fits: ConductanceFits): { key: string; kind:
 export function upscaleInventory(
   stems: readonly InventoryStem[],
   fits: ConductanceFits,
-  o: { confidence: number; bootstrap_replicates: number; seed: number },
+  o: {
+    confidence: number;
+    bootstrap_replicates: number;
+    seed: number;
+    upscale_bias_correction: boolean;
+    /** "prediction" or "fit". */
+    upscale_interval: string;
+  },
 ): Upscaling {
   const choice = stems.map((s) => chooseFit(s.species, fits));
+  /** K of one stem: the fit's median, times the lognormal mean factor when corrected. */
+  const predict = (f: PowerLawFit, dbhM: number): number => {
+    const s = Number.isFinite(f.logResidualSd) ? f.logResidualSd : 0;
+    return predictConductance(f, dbhM) * (o.upscale_bias_correction ? Math.exp((s * s) / 2) : 1);
+  };
   const predictions: StemPrediction[] = stems.map((s, i) => {
     const c = choice[i];
     return {
@@ -149,7 +170,7 @@ export function upscaleInventory(
       species: s.species,
       dbhM: s.dbhM,
       fit: c.kind,
-      conductanceKgPerSPerMPa: predictConductance(c.fit, s.dbhM),
+      conductanceKgPerSPerMPa: predict(c.fit, s.dbhM),
       outsideScannedRange: s.dbhM < c.fit.dbhMinM || s.dbhM > c.fit.dbhMaxM,
     };
   });
@@ -162,14 +183,10 @@ export function upscaleInventory(
     }
   }
   const stemPlot = stems.map((s) => plotIndex.get(s.plotId) as number);
-  const totals = (pick: (key: string) => PowerLawFit): Float64Array => {
-    const t = new Float64Array(plotIds.length);
-    stems.forEach((s, i) => {
-      t[stemPlot[i]] += predictConductance(pick(choice[i].key), s.dbhM);
-    });
-    return t;
-  };
-  const point = totals((k) => (k === '' ? (fits.pooled as PowerLawFit) : (fits.bySpecies.get(k) as PowerLawFit)));
+  const point = new Float64Array(plotIds.length);
+  predictions.forEach((p, i) => {
+    point[stemPlot[i]] += p.conductanceKgPerSPerMPa;
+  });
 
   // Case bootstrap of every fit that is used.
   const usedKeys = [...new Set(choice.map((c) => c.key))].sort();
@@ -204,7 +221,15 @@ export function upscaleInventory(
       failed++;
       continue;
     }
-    const t = totals((k) => refit.get(k) as PowerLawFit);
+    const t = new Float64Array(plotIds.length);
+    for (let i = 0; i < stems.length; i++) {
+      const f = refit.get(choice[i].key) as PowerLawFit;
+      const sd = Number.isFinite(f.logResidualSd) ? f.logResidualSd : 0;
+      // prediction: this stem's own deviation from the fit, lognormal about the median
+      // (its mean is then the bias-corrected prediction); fit: the fit's mean stem.
+      t[stemPlot[i]] +=
+        o.upscale_interval === 'prediction' ? predictConductance(f, stems[i].dbhM) * Math.exp(sd * rng.normal()) : predict(f, stems[i].dbhM);
+    }
     for (let p = 0; p < plotIds.length; p++) reps[p][b] = t[p];
   }
   const plots: PlotEstimate[] = plotIds.map((id, p) => {
@@ -226,7 +251,10 @@ export function upscaleInventory(
   return {
     confidence: o.confidence,
     method:
-      'sum over stems of K = c * DBH^d (species fit if fitted, else pooled) divided by plot area; interval: percentile case bootstrap of the fits (fit uncertainty only)',
+      `sum over stems of K = c * DBH^d${o.upscale_bias_correction ? ' * exp(s^2/2)' : ''} (species fit if fitted, else pooled) divided by plot area; ` +
+      `interval: percentile case bootstrap of the fits${o.upscale_interval === 'prediction' ? ' plus lognormal scatter of each stem about the fit (prediction)' : ' (fit uncertainty only)'}`,
+    biasCorrection: o.upscale_bias_correction,
+    interval: o.upscale_interval,
     bootstrapReplicates: o.bootstrap_replicates,
     bootstrapFailed: failed,
     plots,

@@ -98,23 +98,37 @@ export function cleanCloud(cloud: PointCloud, options: CleanOptionValues, progre
     lz[i] = finite[i] ? cloud.z[i] - oz : NaN;
   }
   progress?.('clean', 0, 4);
-  const voxels = voxelize(lx, ly, lz, options.voxel_size_m, finite);
+  // Ground first, on the raw points (two cheap passes): ground points usually outnumber the tree,
+  // and thinning and outlier search then only see what stands above the ground.
+  const ground = estimateGround(lx, ly, lz, options.ground_cell_m, finite);
+  const pointReason = new Uint8Array(n); // 0 keep, 1 outlier, 2 ground, 3 below ground, 4 leaf, 5 non-finite
+  const standing = new Uint8Array(n);
+  for (let i = 0; i < n; i++) {
+    if (!finite[i]) {
+      pointReason[i] = 5;
+      continue;
+    }
+    const h = lz[i] - ground.heightAt(lx[i], ly[i]);
+    if (h < -options.below_ground_m) pointReason[i] = 3;
+    else if (options.remove_ground && h < options.ground_height_m) pointReason[i] = 2;
+    else standing[i] = 1;
+  }
+  const voxels = voxelize(lx, ly, lz, options.voxel_size_m, standing);
+  progress?.('clean', 1, 4);
+  if (voxels.count === 0) {
+    throw new XylemapError('no tree found: nothing stands above the ground surface', {
+      file,
+      stage: 'clean',
+      hint: 'the cloud looks like ground only; check the file, or set clean.remove_ground to false for a cloud without ground',
+    });
+  }
   const allTree = buildKdTree(voxels.x, voxels.y, voxels.z);
   const { outlier, medianSpacingM } = statisticalOutliers(allTree, voxels.x, voxels.y, voxels.z, options.outlier_neighbours, options.outlier_std_ratio);
-  progress?.('clean', 1, 4);
-
-  const notOutlier = new Uint8Array(voxels.count);
-  for (let v = 0; v < voxels.count; v++) notOutlier[v] = outlier[v] ? 0 : 1;
-  const ground = estimateGround(voxels.x, voxels.y, voxels.z, options.ground_cell_m, notOutlier);
   const voxelHeight = new Float64Array(voxels.count);
-  // 0 keep, 1 outlier, 2 ground, 3 below ground, 4 leaf
   const reason = new Uint8Array(voxels.count);
   for (let v = 0; v < voxels.count; v++) {
-    const h = voxels.z[v] - ground.heightAt(voxels.x[v], voxels.y[v]);
-    voxelHeight[v] = h;
+    voxelHeight[v] = voxels.z[v] - ground.heightAt(voxels.x[v], voxels.y[v]);
     if (outlier[v]) reason[v] = 1;
-    else if (h < -options.below_ground_m) reason[v] = 3;
-    else if (options.remove_ground && h < options.ground_height_m) reason[v] = 2;
   }
   if (options.leaf_filter) {
     const keepIdx: number[] = [];
@@ -146,6 +160,10 @@ export function cleanCloud(cloud: PointCloud, options: CleanOptionValues, progre
   }
   const counts: CleanCounts = { input: n, non_finite: nonFinite, outlier: 0, ground: 0, below_ground: 0, leaf: 0, kept: 0 };
   const names = ['kept', 'outlier', 'ground', 'below_ground', 'leaf'] as const;
+  for (let i = 0; i < n; i++) {
+    const r = pointReason[i];
+    if (r === 2 || r === 3) counts[names[r]]++;
+  }
   for (let v = 0; v < voxels.count; v++) counts[names[reason[v]]] += voxels.pointOffsets[v + 1] - voxels.pointOffsets[v];
   if (m === 0) {
     throw new XylemapError('no tree found: nothing is left after removing ground and outliers', {

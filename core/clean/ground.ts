@@ -19,6 +19,8 @@ export interface GroundModel {
 
 /** Tolerance of a cell's low value around the robust plane, m (common practice, no source). */
 const PLANE_TOLERANCE_M = 0.35;
+/** Fewest points for a cell to describe a surface (common practice, no source). */
+const MIN_CELL_POINTS = 5;
 
 /**
  * @param x,y,z local coordinates, m
@@ -40,9 +42,11 @@ export function estimateGround(x: ArrayLike<number>, y: ArrayLike<number>, z: Ar
   const cells = nx * ny;
   // The 3rd-lowest z of a cell: robust to one or two stray low points, cheap to keep.
   const low = new Float64Array(cells * 3).fill(Infinity);
+  const cellCount = new Int32Array(cells);
   for (let i = 0; i < n; i++) {
     if (include && !include[i]) continue;
     const c = cellOf(x[i], y[i]);
+    cellCount[c]++;
     const o = c * 3;
     const v = z[i];
     if (v < low[o + 2]) {
@@ -55,12 +59,9 @@ export function estimateGround(x: ArrayLike<number>, y: ArrayLike<number>, z: Ar
       } else low[o + 2] = v;
     }
   }
+  // Cells with fewer than MIN_CELL_POINTS points hold strays (mixed pixels, clutter), not a surface.
   const cand = new Float64Array(cells).fill(NaN);
-  for (let c = 0; c < cells; c++) {
-    const o = c * 3;
-    cand[c] = low[o + 2] < Infinity ? low[o + 2] : low[o + 1] < Infinity ? low[o + 1] : low[o];
-    if (cand[c] === Infinity) cand[c] = NaN;
-  }
+  for (let c = 0; c < cells; c++) if (cellCount[c] >= MIN_CELL_POINTS) cand[c] = low[c * 3 + 2];
   const cx = (c: number): number => x0 + ((c % nx) + 0.5) * cellM;
   const cy = (c: number): number => y0 + (Math.floor(c / nx) + 0.5) * cellM;
 
@@ -108,15 +109,44 @@ export function estimateGround(x: ArrayLike<number>, y: ArrayLike<number>, z: Ar
     }
     return { score, meanZ: sz / occupiedCells.length };
   }
+  // Second pass: the low value of each cell relative to the plane, so that on a slope the cell's
+  // downhill corner does not pull the ground down by half the slope × cell size.
+  const lowR = new Float64Array(cells * 3).fill(Infinity);
+  for (let i = 0; i < n; i++) {
+    if (include && !include[i]) continue;
+    const o = cellOf(x[i], y[i]) * 3;
+    const v = z[i] - (plane[0] + plane[1] * x[i] + plane[2] * y[i]);
+    if (v < lowR[o + 2]) {
+      if (v < lowR[o + 1]) {
+        lowR[o + 2] = lowR[o + 1];
+        if (v < lowR[o]) {
+          lowR[o + 1] = lowR[o];
+          lowR[o] = v;
+        } else lowR[o + 1] = v;
+      } else lowR[o + 2] = v;
+    }
+  }
+  const cellLow = (c: number): number => (cellCount[c] >= MIN_CELL_POINTS ? lowR[c * 3 + 2] : Infinity);
+  // The first plane went through cell minima, which sit low on a slope: lift it by the median
+  // detrended low value of the ground cells.
+  const lows: number[] = [];
+  for (let c = 0; c < cells; c++) {
+    const r = cellLow(c);
+    if (r < Infinity && Math.abs(r) <= PLANE_TOLERANCE_M) lows.push(r);
+  }
+  lows.sort((a, b) => a - b);
+  const lift = lows.length > 0 ? lows[lows.length >> 1] : 0;
+  plane = [plane[0] + lift, plane[1], plane[2]];
   let accepted = 0;
   let occupied = 0;
   const grid = new Float64Array(cells);
   for (let c = 0; c < cells; c++) {
+    const r = cellLow(c) - lift;
     const p = plane[0] + plane[1] * cx(c) + plane[2] * cy(c);
-    if (Number.isFinite(cand[c])) occupied++;
-    const ok = Number.isFinite(cand[c]) && Math.abs(cand[c] - p) <= PLANE_TOLERANCE_M;
+    if (r < Infinity) occupied++;
+    const ok = r < Infinity && Math.abs(r) <= PLANE_TOLERANCE_M;
     if (ok) accepted++;
-    grid[c] = ok ? cand[c] : p;
+    grid[c] = ok ? p + r : p;
   }
 
   return {

@@ -41,7 +41,7 @@ export interface HydraulicsResult {
  */
 export function analyseHydraulics(network: Network, options?: unknown, preset?: SpeciesPreset): HydraulicsResult {
   const opts = hydraulicsOptions.resolve(options);
-  const chosen = preset ? { preset, source: opts.preset_file || 'given' } : resolvePreset(opts);
+  const chosen = preset ? { preset, source: sourceOf(preset, opts) } : resolvePreset(opts);
   const sp = chosen.preset;
   const tree = SegmentTree.fromNetwork(network);
   const n = tree.size;
@@ -108,6 +108,8 @@ export function analyseHydraulics(network: Network, options?: unknown, preset?: 
     caution: HYDRAULICS_CAUTION,
     preset: sp.name,
     preset_source: chosen.source,
+    /** The anatomy actually assumed, so the block is reproducible without the preset file. */
+    preset_values: { conduit: sp.conduit, sapwood: sp.sapwood, vulnerability: sp.vulnerability, leaf: sp.leaf },
     rules: {
       conduit_rule: opts.conduit_rule,
       count_rule: opts.count_rule,
@@ -215,6 +217,12 @@ function flowSetup(tree: SegmentTree, g: Float64Array, water: WaterProperties, o
     toleranceMpa: opts.convergence_tolerance_mpa,
     maxIterations: opts.max_iterations,
   };
+}
+
+/** Where a preset handed in by the caller came from, as far as the options tell. */
+function sourceOf(preset: SpeciesPreset, opts: HydraulicsOptionValues): string {
+  if (opts.preset_file) return opts.preset_file;
+  return preset.name === opts.preset ? `built-in:${preset.name}` : 'given by the caller';
 }
 
 function maxHeightAboveBase(nodeZ: Float64Array): number {

@@ -207,9 +207,12 @@ export function solveSpd(
     else for (let i = 0; i < n; i++) z[i] = r[i] * invDiag[i];
   };
   const x = options.initial ? Float64Array.from(options.initial) : new Float64Array(n);
-  const r = new Float64Array(n);
-  csrMultiply(a, x, r);
-  for (let i = 0; i < n; i++) r[i] = b[i] - r[i];
+  const r = Float64Array.from(b);
+  if (options.initial) {
+    const ax = new Float64Array(n);
+    csrMultiply(a, x, ax);
+    for (let i = 0; i < n; i++) r[i] -= ax[i];
+  }
   const bNorm = norm(b);
   if (bNorm === 0) return { x: new Float64Array(n), iterations: 0, relativeResidual: 0, preconditioner: kind };
   const z = new Float64Array(n);

@@ -7,7 +7,7 @@ import { join, resolve } from 'node:path';
 import { batchOptions, type BatchOptionValues } from '../batch/options.js';
 import type { ManifestRow } from '../batch/manifest.js';
 import { standOutputs, type FailedTree } from '../batch/outputs.js';
-import { resumeDecision } from '../batch/resume.js';
+import { canonicalJson, resumeDecision } from '../batch/resume.js';
 import { runBatch, type BatchProgress, type TreeJob, type TreeOutcome, type TreeResult } from '../batch/run-batch.js';
 import { selectShard, type ShardSpec } from '../batch/shard.js';
 import type { TreeRecord } from '../batch/stand.js';
@@ -152,6 +152,7 @@ export async function runBatchFolder(input: BatchRunInput): Promise<BatchRunResu
     schema: 'xylemap.batch/1',
     manifest: resolve(input.manifestPath),
     shard: input.shard ? { index: input.shard.index, count: input.shard.count, source: input.shard.source } : null,
+    batch_options: options,
     trees: results.map((res) => {
       const row = byId.get(res.treeId) as ManifestRow;
       return {
@@ -198,12 +199,27 @@ export interface MergeResult {
 
 /**
  * Merge the folders of a sharded batch into the stand tables a single run would have written
- * (same trees → byte-identical stand.csv and species.csv).
- * @throws XylemapError when a folder is not a batch folder, or a tree appears in two folders
+ * (same trees → byte-identical stand.csv and species.csv). The statistics use the `batch` options
+ * the shards recorded, unless a configuration is given.
+ * @throws XylemapError when a folder is not a batch folder, a tree appears in two folders, or the
+ *   shards ran with different batch options and no configuration settles it
  */
 export function mergeBatchFolders(dirs: readonly string[], outDir: string, rawConfig?: unknown, configFile?: string, inventoryPath?: string): MergeResult {
   if (dirs.length === 0) throw new XylemapError('no shard folders given', { stage: 'batch', hint: 'xylemap merge OUT/shard-* --out OUT/merged' });
-  const options = batchConfig(rawConfig, configFile);
+  const parts = dirs.map((dir) => ({ dir, ...readBatchFolder(dir) }));
+  let options: BatchOptionValues;
+  if (rawConfig !== undefined) options = batchConfig(rawConfig, configFile);
+  else {
+    const recorded = [...new Set(parts.map((p) => canonicalJson(p.record.batch_options ?? null)))];
+    if (recorded.length > 1) {
+      throw new XylemapError('the folders were run with different batch options', {
+        stage: 'batch',
+        option: 'batch',
+        hint: 'pass --config with the batch: block to use for the merged tables',
+      });
+    }
+    options = batchOptions.resolve(parts[0].record.batch_options ?? undefined);
+  }
   const inventory: InventoryStem[] | undefined = inventoryPath ? readInventoryFile(inventoryPath, options.max_plausible_dbh_m) : undefined;
   const trees: TreeRecord[] = [];
   const failures: FailedTree[] = [];
@@ -211,8 +227,8 @@ export function mergeBatchFolders(dirs: readonly string[], outDir: string, rawCo
   const duplicates: string[] = [];
   const shardsSeen = new Map<number, Set<number>>();
   const warnings: string[] = [];
-  for (const dir of dirs) {
-    const part = readBatchFolder(dir);
+  for (const part of parts) {
+    const dir = part.dir;
     for (const t of [...part.trees, ...part.failures]) {
       const first = seen.get(t.treeId);
       if (first !== undefined) duplicates.push(`tree_id "${t.treeId}" in ${first} and ${dir}`);

@@ -69,6 +69,8 @@ export interface BatchRecord {
   schema: 'xylemap.batch/1';
   manifest: string;
   shard: { index: number; count: number; source: string } | null;
+  /** The resolved `batch` options of the run (merge uses them unless given a configuration). */
+  batch_options?: Record<string, unknown>;
   trees: {
     index: number;
     tree_id: string;

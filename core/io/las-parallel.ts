@@ -115,6 +115,8 @@ export async function decodeParallel(path: string, offsetToPointData: number, la
           else reject(new XylemapError(m.message ?? 'worker failed', { file: path }));
         });
         w.once('error', (e) => reject(new XylemapError(`decode worker failed: ${e.message}`, { file: path })));
+        // A worker that dies without a message (e.g. out of memory) must not leave the read hanging.
+        w.once('exit', (code) => reject(new XylemapError(`decode worker exited with code ${code} before finishing`, { file: path })));
       }),
   );
   decodeRangeFromFile(jobs[0]);

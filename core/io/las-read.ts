@@ -1,12 +1,11 @@
 import { closeSync, fstatSync, openSync, readSync } from 'node:fs';
 import type { LasVlr, PointCloud } from '../types/point-cloud.js';
 import { XylemapError } from '../util/errors.js';
-import { headerSaysCompressed, parseEvlrs, parseLasHeader, parseVlrs, readText, type LasHeader } from './las-header.js';
+import { headerSaysCompressed, parseEvlrs, parseLasHeader, parseVlrs, POINT_FORMAT_SIZES, readText, type LasHeader } from './las-header.js';
 import { hasUndescribedBytes, parseExtraBytesFields } from './las-extra-bytes.js';
 import { allocateLasCloud, buildLayout, decodeRecords, type LasLayout } from './las-points.js';
 import { findLaszipVlr, parseLaszipVlr, refuseUnsupportedLaz } from './laszip-vlr.js';
 import { decodeLazInto } from './laz-decode.js';
-import { POINT_FORMAT_SIZES } from './las-header.js';
 import { BLOCK_RECORDS, decodeParallel, decodeThreads } from './las-parallel.js';
 
 /** EVLR payloads above this size (waveform data) are skipped, not kept in memory. */
@@ -23,17 +22,17 @@ function readAt(fd: number, position: number, length: number): Uint8Array {
   return done === length ? out : out.subarray(0, done);
 }
 
+export interface LasReadOptions {
+  /** Decode threads for large uncompressed files (default: XYLEMAP_IO_THREADS, else min(cores, 4)). */
+  threads?: number;
+}
+
 /**
  * Read a LAS or LAZ file (compression detected from the header, never from the name).
  * Points are read block by block into preallocated arrays, so the peak memory is the final
  * arrays plus one block (LAZ: plus the compressed bytes).
  * @throws XylemapError for damaged, truncated or unsupported files.
  */
-export interface LasReadOptions {
-  /** Decode threads for large uncompressed files (default: XYLEMAP_IO_THREADS, else min(cores, 4)). */
-  threads?: number;
-}
-
 export async function readLas(path: string, options: LasReadOptions = {}): Promise<PointCloud> {
   let fd: number;
   try {
@@ -77,8 +76,8 @@ async function readLasFd(fd: number, path: string, options: LasReadOptions): Pro
     const info = parseLaszipVlr(laszip, path);
     refuseUnsupportedLaz(info, header.pointFormat, path);
     checkChunkTable(fd, header, info.chunkSize, fileSize, path);
-    // LASzip needs well over 0.1 byte per point even for constant data (measured ≥ 0.3 B on the
-    // reference files); a count far beyond that is a damaged header, not a real file.
+    // Real LAZ files need bytes per point, not points per byte (≥ 2.07 B/point among the reference
+    // files, plane.laz); a count of more than 100 points per compressed byte is a damaged header.
     if (count > 100 * Math.max(1, fileSize - header.offsetToPointData)) {
       throw new XylemapError(`header says ${count} points, impossible for ${fileSize - header.offsetToPointData} bytes of LAZ data`, {
         file: path,
@@ -98,7 +97,7 @@ async function readLasFd(fd: number, path: string, options: LasReadOptions): Pro
     const threads = decodeThreads(count, options.threads);
     cloud = allocate(layout, count, path, threads > 1);
     if (threads > 1) await decodeParallel(path, header.offsetToPointData, layout, cloud, threads);
-    else readUncompressed(fd, header, layout, cloud);
+    else readUncompressed(fd, header, layout, cloud, path);
   }
   cloud.source = {
     format: compressed ? 'laz' : 'las',
@@ -140,7 +139,7 @@ function allocate(layout: LasLayout, count: number, path: string, shared = false
   }
 }
 
-function readUncompressed(fd: number, header: LasHeader, layout: LasLayout, cloud: PointCloud): void {
+function readUncompressed(fd: number, header: LasHeader, layout: LasLayout, cloud: PointCloud, path: string): void {
   const rl = header.recordLength;
   const block = new Uint8Array(BLOCK_RECORDS * rl);
   for (let start = 0; start < cloud.count; start += BLOCK_RECORDS) {
@@ -149,7 +148,7 @@ function readUncompressed(fd: number, header: LasHeader, layout: LasLayout, clou
     let done = 0;
     while (done < want) {
       const got = readSync(fd, block, done, want - done, header.offsetToPointData + start * rl + done);
-      if (got === 0) throw new XylemapError('file ended inside the point data', { hint: 'the file is truncated; copy or export it again' });
+      if (got === 0) throw new XylemapError('file ended inside the point data', { file: path, hint: 'the file is truncated; copy or export it again' });
       done += got;
     }
     decodeRecords(block, 0, n, cloud, start, layout);

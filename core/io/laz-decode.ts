@@ -40,6 +40,7 @@ export async function decodeLazInto(fd: number, fileSize: number, header: LasHea
     try {
       reader.open(filePtr, fileSize);
     } catch (e) {
+      lazPerf = undefined;
       throw new XylemapError(`the LAZ decoder could not open the file (${describe(e)})`, {
         file: path,
         hint: 'the LAZ file is damaged or uses an unsupported variant; convert it to uncompressed LAS',
@@ -56,6 +57,8 @@ export async function decodeLazInto(fd: number, fileSize: number, header: LasHea
       try {
         for (let k = 0; k < n; k++) reader.getPoint(blockPtr + k * rl);
       } catch (e) {
+        // The WASM heap may be left inconsistent: the next file gets a fresh module.
+        lazPerf = undefined;
         throw new XylemapError(`the LAZ decoder failed near point ${start} of ${cloud.count} (${describe(e)})`, {
           file: path,
           hint: 'the LAZ file is truncated or damaged; copy or export it again',
@@ -72,5 +75,7 @@ export async function decodeLazInto(fd: number, fileSize: number, header: LasHea
 }
 
 function describe(e: unknown): string {
-  return e instanceof Error ? e.message : String(e);
+  const text = e instanceof Error ? e.message : String(e);
+  // Emscripten's uncatchable-exception text is long and says nothing to a user.
+  return /Exception catching is disabled/.test(text) ? 'internal decoder exception' : text;
 }

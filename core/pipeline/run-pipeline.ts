@@ -143,6 +143,7 @@ export async function runPipeline(input: RunInput, config?: unknown, options: { 
     Record<string, unknown>
   >;
 
+  progress('outputs', 0, 2);
   const outputs: TreeOutputs = time(timingsMs, 'outputs', () => {
     const out: TreeOutputs = {};
     out['segments.csv'] = formatSegmentsCsv(network);
@@ -159,6 +160,7 @@ export async function runPipeline(input: RunInput, config?: unknown, options: { 
     out['summary.json'] = stableJson(summary);
     return out;
   });
+  progress('outputs', 1, 2);
   outputs['report.html'] = time(timingsMs, 'report', () =>
     buildReportHtml(
       reportDataFromResults({
@@ -188,6 +190,7 @@ export async function runPipeline(input: RunInput, config?: unknown, options: { 
     timings_ms: { ...timingsMs, reconstruct_stages: rec.timingsMs },
   };
   outputs['run.json'] = stableJson(run);
+  progress('outputs', 2, 2);
   const written = input.outDir ? writeTreeOutputs(input.outDir, outputs) : [];
   return { outputs, written, summary, timingsMs, config: cfg };
 }

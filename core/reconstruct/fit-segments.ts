@@ -3,7 +3,7 @@ import type { BandClusters } from './band-clusters.js';
 import { medianRadius } from './band-clusters.js';
 import type { Skeleton } from './skeleton.js';
 import { fitCylinder } from './fit/cylinder-fit.js';
-import { segmentReliability } from './segment-reliability.js';
+import { assessReliability } from './fit/reliability.js';
 
 /** What fitting needs from the cleaned cloud. */
 export interface FitInput {
@@ -44,7 +44,12 @@ export function fitSegments(input: FitInput, bands: BandClusters, skeleton: Skel
   const segments: Segment[] = [];
   for (let p = 0; p < skeleton.pieces.length; p++) {
     const piece = skeleton.pieces[p];
-    const pts = piecePoints(input, bands, piece.clusters);
+    // A furcation cluster at the top of a piece holds the bases of its children too: leave it out
+    // of the fit when the piece has other clusters, so the Y-junction does not bend the cylinder.
+    const fitClusters = piece.clusters.length > 1 && skeleton.isFurcation[piece.clusters[piece.clusters.length - 1]]
+      ? piece.clusters.slice(0, -1)
+      : piece.clusters;
+    const pts = piecePoints(input, bands, fitClusters);
     const first = piece.clusters[0];
     const last = piece.clusters[piece.clusters.length - 1];
     const before = piece.parent >= 0 ? lastCluster(skeleton, piece.parent) : bands.parent[first];
@@ -61,7 +66,7 @@ export function fitSegments(input: FitInput, bands: BandClusters, skeleton: Skel
     let dir: Vec3 = sane ? (fit!.axisDir as Vec3) : axis;
     if (dot(dir, axis) < 0) dir = [-dir[0], -dir[1], -dir[2]];
     if (sane) {
-      start = parent ? [...parent.end] as Vec3 : [...fit!.start] as Vec3;
+      start = parent ? joinToParent(parent, fit!.start as Vec3, dir, piece.startsInternode) : ([...fit!.start] as Vec3);
       end = [...fit!.end] as Vec3;
     } else {
       start = parent ? ([...parent.end] as Vec3) : centroid(bands, first);
@@ -74,7 +79,7 @@ export function fitSegments(input: FitInput, bands: BandClusters, skeleton: Skel
       end = [start[0] + dir[0] * len, start[1] + dir[1] * len, start[2] + dir[2] * len];
     }
     const radiusM = sane ? fit!.radiusM : Math.max(rough, 1e-4);
-    const rel = sane ? segmentReliability(fit, options.min_fit_points, options.range_noise_m) : { reliable: false, reason: fit ? 'poor_fit' : 'few_points' };
+    const rel = sane ? assessReliability(fit, { rangeNoiseM: options.range_noise_m, minPoints: options.min_fit_points }) : { reliable: false, reason: fit ? 'poor_fit' : 'few_points' };
     segments.push({
       segmentId: p,
       parentId: piece.parent,
@@ -146,6 +151,28 @@ function extendToGround(start: Vec3, dir: Vec3, groundAt: (x: number, y: number)
   const g = groundAt(start[0], start[1]);
   const t = Math.min(1, Math.max(0, (start[2] - g) / dir[2]));
   return [start[0] - dir[0] * t, start[1] - dir[1] * t, start[2] - dir[2] * t];
+}
+
+/**
+ * Where a segment starts. Inside an internode it starts at its parent's end (a continuous axis).
+ * The first segment after a furcation starts where its own fitted axis, followed back from its
+ * first points, passes closest to the parent's axis — the branch's insertion in the parent —
+ * searched at most 3 parent radii back; near-parallel continuations keep the parent's end.
+ */
+function joinToParent(parent: Segment, fitStart: Vec3, dir: Vec3, startsInternode: boolean): Vec3 {
+  if (!startsInternode) return [...parent.end] as Vec3;
+  const pd = unit(sub(parent.end, parent.start));
+  const c = dot(pd, dir);
+  if (Math.abs(c) > Math.cos((20 * Math.PI) / 180)) return [...parent.end] as Vec3;
+  // Closest approach of the lines fitStart + s·dir and parent.start + t·pd.
+  const w = sub(fitStart, parent.start);
+  const b = c;
+  const d = dot(dir, w);
+  const e = dot(pd, w);
+  const den = 1 - b * b;
+  const sParam = (b * e - d) / den;
+  const back = Math.min(0, Math.max(-3 * parent.radiusM, sParam));
+  return [fitStart[0] + dir[0] * back, fitStart[1] + dir[1] * back, fitStart[2] + dir[2] * back];
 }
 
 function sub(a: Vec3, b: Vec3): Vec3 {

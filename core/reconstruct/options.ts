@@ -16,7 +16,7 @@ export const reconstructOptions = defineOptions('reconstruct', 'Split the tree i
   prune_min_length_m: { type: 'number', default: 0.06, unit: 'm', min: 0, max: 5, help: 'side shoots shorter than this are noise, not branches' },
   range_noise_m: { type: 'number', default: 0.003, unit: 'm', min: 0, max: 0.1, help: 'range noise of the scanner (1 sigma), used by the robust fit and the reliability rule' },
   min_fit_points: { type: 'number', default: 10, unit: '1', min: 6, max: 100000, integer: true, help: 'segments with fewer points get a radius from their neighbours, not a fit' },
-  correct_radii: { type: 'boolean', default: true, help: 'replace radii of unreliable segments by the taper model (recorded in radius_correction)' },
+  correct_radii: { type: 'boolean', default: false, help: 'replace radii of unreliable segments by the taper model (recorded in radius_correction); off by default: it raised radius and volume errors on the validation suite' },
 });
 
 export type ReconstructOptionValues = OptionValues<typeof reconstructOptions.specs>;

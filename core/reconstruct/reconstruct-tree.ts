@@ -40,7 +40,7 @@ export interface ReconstructResult {
   /** Segment id per input point, -1 where the point is not part of the network. */
   pointSegmentId: Int32Array;
   tree: TreeBlock;
-  reliability: ReliabilitySummary;
+  reliability: ReliabilitySummary & { volume_fit_m3: number; volume_corrected_m3: number; taper_outliers: number };
   warnings: string[];
   /** Wall time per stage, ms. */
   timingsMs: Record<string, number>;
@@ -81,12 +81,16 @@ export function reconstructTree(cloud: PointCloud, options: ReconstructOptionsIn
     maxGapM: co.bridge_max_gap_m,
     minPieceVertices: co.min_piece_voxels,
   });
-  let reached = 0;
-  for (let v = 0; v < m; v++) if (paths.distanceM[v] < Infinity) reached++;
-  const unreachedFraction = 1 - reached / m;
+  // Unreached vertices in sizeable pieces (≥ 100 voxels) are objects or branches left out; single
+  // stray voxels (clutter, mixed pixels) are expected and not worth a warning.
+  const pieceSize = new Map<number, number>();
+  for (let v = 0; v < m; v++) pieceSize.set(cleaned.pieceLabel[v], (pieceSize.get(cleaned.pieceLabel[v]) ?? 0) + 1);
+  let unreachedBig = 0;
+  for (let v = 0; v < m; v++) if (!(paths.distanceM[v] < Infinity) && pieceSize.get(cleaned.pieceLabel[v])! >= 100) unreachedBig++;
+  const unreachedFraction = unreachedBig / m;
   if (unreachedFraction > 0.2) {
     warnings.push(
-      `${Math.round(100 * unreachedFraction)} % of the cleaned cloud could not be connected to the stem base (gaps longer than clean.bridge_max_gap_m = ${co.bridge_max_gap_m} m, or other objects) and was left out`,
+      `${Math.round(100 * unreachedFraction)} % of the cleaned cloud (in pieces of 100 voxels or more) could not be connected to the stem base (gaps longer than clean.bridge_max_gap_m = ${co.bridge_max_gap_m} m, or other objects) and was left out`,
     );
   }
   progress?.('graph', 2, 2);
@@ -124,7 +128,8 @@ export function reconstructTree(cloud: PointCloud, options: ReconstructOptionsIn
   progress?.('fit', 1, 1);
   lap('fit');
 
-  const corrected = ro.correct_radii ? correctNetworkRadii(local) : local;
+  const correction = correctNetworkRadii(local, ro.range_noise_m, ro.correct_radii ? 'taper' : 'none');
+  const corrected = correction.segments;
   const origin = cleaned.origin;
   const shifted: Segment[] = corrected.map((s) => ({
     ...s,
@@ -174,5 +179,11 @@ export function reconstructTree(cloud: PointCloud, options: ReconstructOptionsIn
     band_cluster_count: bands.count,
     gap_bridge_count: bridges.length,
   };
-  return { network, pointSegmentId, tree, reliability: summarizeReliability(network.segments), warnings, timingsMs };
+  const reliability = {
+    ...summarizeReliability(network.segments),
+    volume_fit_m3: correction.summary.volumeFitM3,
+    volume_corrected_m3: correction.summary.volumeCorrectedM3,
+    taper_outliers: correction.summary.taperOutliers,
+  };
+  return { network, pointSegmentId, tree, reliability, warnings, timingsMs };
 }

@@ -18,6 +18,8 @@ export interface Skeleton {
   prunedInto: Int32Array;
   /** Clusters pruned as noise shoots. */
   prunedCount: number;
+  /** 1 for kept clusters with two or more kept children. */
+  isFurcation: Uint8Array;
 }
 
 export interface SkeletonOptions {
@@ -93,7 +95,9 @@ export function buildSkeleton(bands: BandClusters, options: SkeletonOptions): Sk
     const lastPiece = cutChain(chain, parentPiece);
     for (const k of keptChildren[c]) starts.push({ cluster: k, parentPiece: lastPiece });
   }
-  return { pieces, clusterPiece, prunedInto, prunedCount };
+  const isFurcation = new Uint8Array(n);
+  for (let c = 0; c < n; c++) if (alive[c] && keptChildren[c].length >= 2) isFurcation[c] = 1;
+  return { pieces, clusterPiece, prunedInto, prunedCount, isFurcation };
 
   function cutChain(chain: number[], parentPiece: number): number {
     const groups: number[][] = [];

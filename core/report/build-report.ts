@@ -59,8 +59,8 @@ function viewerHtml(data: ReportData, initial: string): string {
   return (
     `<section id="network-view"><h2>Segment network (${data.network.segments.length} segments)</h2><div class="viewer" id="viewer">` +
     `<div class="viewer-bar"><label>Colour by <select id="colour-by">${options}</select></label><button id="viewer-reset" type="button">Reset view</button>` +
-    `<span class="hint">drag: rotate · right- or shift-drag: pan · wheel: zoom · double-click: reset</span></div>` +
-    `<canvas id="viewer-canvas"></canvas><div id="viewer-legend"></div><p id="viewer-mode"></p></div></section>`
+    `<span class="hint">drag: rotate · right- or shift-drag: pan · wheel: zoom · click: values · double-click: reset</span></div>` +
+    `<canvas id="viewer-canvas"></canvas><div id="viewer-legend"></div><p id="viewer-readout">click a segment for its values</p><p id="viewer-mode"></p></div></section>`
   );
 }
 

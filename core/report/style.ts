@@ -22,6 +22,7 @@ h2{font-size:17px;margin:0 0 10px;color:var(--accent);text-transform:uppercase;l
 .viewer-bar select,.viewer-bar button{font:inherit;padding:3px 8px}
 .viewer-bar .hint{color:var(--muted);font-size:12px;margin-left:auto}
 #viewer-mode{position:absolute;right:10px;bottom:6px;margin:0;font-size:11px;color:var(--muted)}
+#viewer-readout{position:absolute;left:12px;top:56px;margin:0;background:rgba(255,253,247,.92);border:1px solid var(--line);border-radius:5px;padding:4px 9px;font-size:12px}
 #viewer-legend{position:absolute;left:12px;bottom:12px;background:rgba(255,253,247,.92);border:1px solid var(--line);border-radius:5px;padding:8px 10px;min-width:190px;font-size:12px}
 .legend-title{font-weight:600;margin-bottom:4px}
 .legend-ramp{height:12px;border-radius:2px}

@@ -53,7 +53,21 @@ export function viewerPayload(data: ReportData, initial: string, minDrawRadiusPx
     optional('water_potential', 'water potential', 'MPa', waterPotentialMPa, { reverse: true }),
     optional('plc', 'PLC', '%', plcPercent, {}),
   ];
-  return { count: n, origin, start: b64(start), end: b64(end), radius: b64(radius), layers, initial, minDrawRadiusPx };
+  const reasons = [...new Set(segs.filter((s) => !s.reliable).map((s) => s.reliabilityReason || 'unspecified'))].sort();
+  const reasonIndex = floatLayer(segs.map((s) => (s.reliable ? -1 : reasons.indexOf(s.reliabilityReason || 'unspecified'))));
+  return {
+    count: n,
+    origin,
+    start: b64(start),
+    end: b64(end),
+    radius: b64(radius),
+    layers,
+    segmentIds: floatLayer(segs.map((s) => s.segmentId)),
+    reasons,
+    reasonIndex,
+    initial,
+    minDrawRadiusPx,
+  };
 }
 
 function optional(

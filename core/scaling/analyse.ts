@@ -4,6 +4,7 @@ import { XylemapError } from '../util/errors.js';
 import {
   evaluateFurcations,
   exponentIntervals,
+  pooledExponent,
   streamRandom,
   type EvaluatedFurcation,
 } from './estimate.js';
@@ -61,6 +62,8 @@ export interface ScalingSummary {
   taper: TaperSummary | null;
   radius_rule: string;
   options: ScalingOptionValues;
+  /** Plain-language cautions (merged into summary.json `warnings` with a "scaling: " prefix). */
+  warnings: string[];
 }
 
 /** One row of furcations.csv. */
@@ -123,33 +126,40 @@ export function analyseFurcationSet(
   const conf = opts.confidence;
   const maxA = opts.exponent_max;
 
-  const main = exponentIntervals(set, used, B, conf, maxA, streamRandom(opts.seed, 0));
+  type Grouping = { name: ByOrderRow['grouping']; key: (f: EvaluatedFurcation) => string | null };
+  const groupings: Grouping[] = [
+    { name: 'branch_order', key: (f) => String(f.record.parentBranchOrder) },
+    { name: 'strahler_order', key: (f) => String(f.record.parentStrahlerOrder) },
+    { name: 'parent_radius_class', key: (f) => radiusClass(f.parentRadiusM, edges) },
+  ];
+  const keyLists = groupings.map((g) => {
+    const keys = [...new Set(evaluated.map(g.key).filter((k): k is string => k !== null))];
+    return keys.sort((x, y) => sortKey(x) - sortKey(y));
+  });
+  const labels = groupings.map((g, gi) => ({ labels: Int32Array.from(used, (f) => keyLists[gi].indexOf(g.key(f)!)), count: keyLists[gi].length }));
+  const main = exponentIntervals(set, used, B, conf, maxA, streamRandom(opts.seed, 0), true, labels);
 
   const excluded = Object.fromEntries(EXCLUSION_REASONS.map((r) => [r, 0])) as Record<ExclusionReason, number>;
   for (const f of evaluated) if (f.status !== 'solved') excluded[f.status]++;
 
   const byOrder: ByOrderRow[] = [];
-  const group = (grouping: ByOrderRow['grouping'], key: (f: EvaluatedFurcation) => string | null, stream: number): void => {
-    const keys = [...new Set(evaluated.map(key).filter((k): k is string => k !== null))];
-    keys.sort((a, b) => sortKey(a) - sortKey(b));
-    keys.forEach((k, gi) => {
-      const all = evaluated.filter((f) => key(f) === k);
-      const g = all.filter((f) => f.status === 'solved');
-      const est = exponentIntervals(set, g, B, conf, maxA, streamRandom(opts.seed, 100 * stream + gi), false);
+  groupings.forEach((g, gi) => {
+    keyLists[gi].forEach((k, li) => {
+      const all = evaluated.filter((f) => g.key(f) === k);
+      const members = used.filter((f) => g.key(f) === k);
+      const logRatios = members.map((f) => Float64Array.from(f.childRadiiM, (r) => Math.log(r / f.parentRadiusM)));
+      const part = main.groups[gi][li];
       byOrder.push({
-        grouping,
+        grouping: g.name,
         group: k,
-        n_used: g.length,
-        n_excluded: all.length - g.length,
-        estimate: finiteOrNull(est.estimate),
-        ci95: est.ci,
-        pooled: finiteOrNull(est.pooled),
+        n_used: members.length,
+        n_excluded: all.length - members.length,
+        estimate: finiteOrNull(part.estimate),
+        ci95: part.ci,
+        pooled: finiteOrNull(pooledExponent(logRatios, maxA, part.estimate)),
       });
     });
-  };
-  group('branch_order', (f) => String(f.record.parentBranchOrder), 2);
-  group('strahler_order', (f) => String(f.record.parentStrahlerOrder), 3);
-  group('parent_radius_class', (f) => radiusClass(f.parentRadiusM, edges), 4);
+  });
 
   const trend = [
     trendTest('branch_order', used.map((f) => f.record.parentBranchOrder), used.map((f) => f.exponent), opts.permutations, streamRandom(opts.seed, 5)),
@@ -194,8 +204,23 @@ export function analyseFurcationSet(
     taper: extra.taper,
     radius_rule: extra.radiusRule,
     options: opts,
+    warnings: scalingWarnings(evaluated.length, used.length, excluded, used.filter((f) => f.record.radiusSource === 'adjacent').length),
   };
   return { summary, furcationRows: furcationRows(evaluated), branchTaperRows: extra.branchTaperRows };
+}
+
+/** Cautions a reader should see next to the estimate (thresholds: common practice, no source). */
+function scalingWarnings(total: number, used: number, excluded: Record<ExclusionReason, number>, adjacent: number): string[] {
+  const w: string[] = [];
+  if (total === 0) w.push('the network has no furcations; no exponent can be estimated');
+  else if (used === 0) w.push('no furcation could be used; see excluded_by_reason');
+  else if (used < 10) w.push(`only ${used} furcations used; the interval rests on few values`);
+  const unsolvable = excluded.children_thinner + excluded.child_thicker + excluded.above_range;
+  if (total > 0 && unsolvable / total > 0.2) {
+    w.push(`${unsolvable} of ${total} furcations have no exponent above 1 (children too thin or a child too thick); radii of thin branches may be biased`);
+  }
+  if (adjacent > 0) w.push(`${adjacent} used furcations took radii from joint-adjacent segments (nothing else reliable)`);
+  return w;
 }
 
 function furcationRows(evaluated: EvaluatedFurcation[]): FurcationRow[] {

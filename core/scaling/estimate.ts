@@ -1,7 +1,7 @@
 import { createRandom, type Random } from '../util/random.js';
 import { fitTaperRate, type FurcationRecord, type FurcationSet } from './furcation-set.js';
 import { exponentVariance, solveExponent, type FurcationStatus } from './solve.js';
-import { huberLocation, madSigma, median, percentileInterval } from './stats.js';
+import { huberLocation, madSigma, median, medianInPlace, percentileInterval } from './stats.js';
 
 /** One furcation with its combined radii and solved exponent. */
 export interface EvaluatedFurcation {
@@ -108,29 +108,31 @@ export function exponentIntervals(
   maxExponent: number,
   rng: Random,
   withPooled = true,
-): ExponentIntervals {
+  groupings: { labels: Int32Array; count: number }[] = [],
+): ExponentIntervals & { groups: GroupInterval[][] } {
   const n = used.length;
   const a = Float64Array.from(used, (f) => f.exponent);
   const ratios = used.map((f) => Float64Array.from(f.childRadiiM, (r) => Math.log(r / f.parentRadiusM)));
   const estimate = n > 0 ? median(a) : NaN;
   const huber = n > 0 ? huberLocation(a) : NaN;
   const pooled = pooledExponent(ratios, maxExponent, estimate);
+  const variance = Float64Array.from(used, (f) => f.exponentVariance);
+  const main = spreadParts(a, variance);
+  const groups = groupings.map((g) => groupParts(g.labels, g.count, a, variance));
   if (n === 0) {
-    return { estimate, ci: [null, null], huber, pooled, pooledCi: [null, null], spreadShrink: NaN, measurementSd: NaN, observedSd: NaN };
+    return { estimate, ci: [null, null], huber, pooled, pooledCi: [null, null], spreadShrink: NaN, measurementSd: NaN, observedSd: NaN, groups: groups.map((g) => g.map(() => ({ estimate: NaN, ci: [null, null] }))) };
   }
-  const observedSd = madSigma(a);
-  const variances = used.map((f) => f.exponentVariance).filter((v) => Number.isFinite(v));
-  const measurementVar = variances.length > 0 ? median(variances) : 0;
-  const s2 = observedSd * observedSd;
-  const shrink = s2 > 0 ? Math.sqrt(Math.max(0, s2 - measurementVar) / s2) : measurementVar > 0 ? 0 : 1;
+  const shrink = main.shrink;
   const anyError = used.some((f) => hasError(f, set));
   const samples = uniqueSamples(used, set.taper);
   const drawn = new Float64Array(set.sampleRadiusM);
   const reps = new Float64Array(replicates);
   const pooledReps = new Float64Array(withPooled ? replicates : 0);
+  const groupReps = groups.map((g) => g.map(() => new Float64Array(replicates)));
   const picked = new Float64Array(n);
   const pickedRatios: Float64Array[] = new Array(n);
   const mcValues = new Float64Array(n);
+  const delta = new Float64Array(n);
   const mcRatios: Float64Array[] = [];
   for (let b = 0; b < replicates; b++) {
     for (let k = 0; k < n; k++) {
@@ -138,7 +140,7 @@ export function exponentIntervals(
       picked[k] = a[j];
       pickedRatios[k] = ratios[j];
     }
-    let rep = estimate + shrink * (median(picked) - estimate);
+    let rep = estimate + shrink * (medianInPlace(picked, n) - estimate);
     let pooledRep = withPooled ? pooled + shrink * (pooledExponent(pickedRatios, maxExponent, pooled) - pooled) : NaN;
     if (anyError) {
       drawRadii(set, samples, drawn, rng);
@@ -147,17 +149,33 @@ export function exponentIntervals(
       mcRatios.length = 0;
       for (let k = 0; k < n; k++) {
         const d = solveDrawn(used[k].record, drawn, rate, maxExponent);
+        delta[k] = d.exponent - a[k];
         if (Number.isNaN(d.exponent)) continue;
         // Denoised value plus a fresh error: the median is not linear, so adding the error to the
         // already-noisy a_k would overstate its spread (~15 % wider SD, measured).
-        mcValues[m++] = estimate + shrink * (a[k] - estimate) + (d.exponent - a[k]);
+        mcValues[m++] = estimate + shrink * (a[k] - estimate) + delta[k];
         if (withPooled) mcRatios.push(d.ratios);
       }
-      rep = m > 0 ? rep + median(mcValues.subarray(0, m)) - estimate : NaN;
+      rep = m > 0 ? rep + medianInPlace(mcValues, m) - estimate : NaN;
       if (withPooled) pooledRep = m > 0 ? pooledRep + pooledExponent(mcRatios, maxExponent, pooled) - pooled : NaN;
     }
     reps[b] = rep;
     if (withPooled) pooledReps[b] = pooledRep;
+    // Groups (e.g. by order) reuse this replicate's Monte Carlo draw and resample within the group.
+    groups.forEach((g, gi) => {
+      g.forEach((part, li) => {
+        const members = part.members;
+        const ng = members.length;
+        for (let k = 0; k < ng; k++) picked[k] = a[members[rng.int(ng)]];
+        let r = part.estimate + part.shrink * (medianInPlace(picked, ng) - part.estimate);
+        if (anyError) {
+          let m = 0;
+          for (const k of members) if (!Number.isNaN(delta[k])) mcValues[m++] = part.estimate + part.shrink * (a[k] - part.estimate) + delta[k];
+          r = m > 0 ? r + medianInPlace(mcValues, m) - part.estimate : NaN;
+        }
+        groupReps[gi][li][b] = r;
+      });
+    });
   }
   return {
     estimate,
@@ -166,9 +184,38 @@ export function exponentIntervals(
     pooled,
     pooledCi: withPooled ? percentileInterval(pooledReps, confidence) : [null, null],
     spreadShrink: shrink,
-    measurementSd: Math.sqrt(measurementVar),
-    observedSd,
+    measurementSd: Math.sqrt(main.measurementVar),
+    observedSd: main.observedSd,
+    groups: groups.map((g, gi) => g.map((part, li) => ({ estimate: part.estimate, ci: percentileInterval(groupReps[gi][li], confidence) }))),
   };
+}
+
+/** Median and interval of one group of furcations (e.g. one branching order). */
+export interface GroupInterval {
+  estimate: number;
+  ci: [number | null, number | null];
+}
+
+/** Robust spread S, median measurement variance V and the shrink factor s = sqrt(max(0, S² − V)/S²). */
+function spreadParts(a: Float64Array, variance: Float64Array): { observedSd: number; measurementVar: number; shrink: number } {
+  if (a.length === 0) return { observedSd: NaN, measurementVar: NaN, shrink: NaN };
+  const observedSd = madSigma(a);
+  const finite = Array.from(variance).filter((v) => Number.isFinite(v));
+  const measurementVar = finite.length > 0 ? median(finite) : 0;
+  const s2 = observedSd * observedSd;
+  const shrink = s2 > 0 ? Math.sqrt(Math.max(0, s2 - measurementVar) / s2) : measurementVar > 0 ? 0 : 1;
+  return { observedSd, measurementVar, shrink };
+}
+
+/** Per label 0..count−1: member indices, median and shrink factor. */
+function groupParts(labels: Int32Array, count: number, a: Float64Array, variance: Float64Array): { members: number[]; estimate: number; shrink: number }[] {
+  const members: number[][] = Array.from({ length: count }, () => []);
+  labels.forEach((l, k) => members[l].push(k));
+  return members.map((m) => {
+    const ga = Float64Array.from(m, (k) => a[k]);
+    const gv = Float64Array.from(m, (k) => variance[k]);
+    return { members: m, estimate: m.length > 0 ? median(ga) : NaN, shrink: spreadParts(ga, gv).shrink };
+  });
 }
 
 function hasError(f: EvaluatedFurcation, set: FurcationSet): boolean {

@@ -66,8 +66,9 @@ export interface FurcationRecord {
  * internode taper k = d ln r / dx, x the fractional position along the internode (0 at its base,
  * 1 at its top), is fitted once for the whole tree by least squares with one intercept per
  * internode (so the radius drops AT furcations do not enter it), over internodes with ≥ 2 usable
- * segments. Each window radius at fractional distance u from the joint is then multiplied by
- * e^(k·u) (parent) or e^(−k·u) (child). The Monte Carlo part of the interval refits k on every
+ * segments. Each window radius at fractional distance u from the joint-adjacent segment (midpoint
+ * to midpoint) is then multiplied by e^(k·u) (parent) or e^(−k·u) (child), i.e. carried to the
+ * radius of the cylinder next to the joint. The Monte Carlo part of the interval refits k on every
  * draw, because an error in k shifts ALL furcations the same way (measured: ignoring it gave
  * 72 % coverage at 95 % nominal).
  */
@@ -136,7 +137,7 @@ function chainLength(segments: AnnotatedNetwork['segments'], chain: number[]): n
   return l;
 }
 
-/** Window of a chain (nearest the joint first) with each chosen segment's fractional distance u from the joint. */
+/** Window of a chain (nearest the joint first) with each chosen segment's fractional distance u from the joint-adjacent one. */
 function pickWindow(
   chain: number[],
   usable: (i: number) => boolean,
@@ -145,7 +146,10 @@ function pickWindow(
 ): { samples: number[]; u: number[]; adjacent: boolean } {
   const k = options.radius_window_segments;
   const skip = options.joint_skip_segments;
-  const u = fromJoint(chain, segments);
+  // Distances count from the joint-adjacent segment's midpoint: radii are carried to the radius a
+  // cylinder next to the joint would have (the convention of generated truth and of calliper
+  // readings taken just below / above a joint).
+  const u = fromJoint(chain, segments).map((v, _, all) => v - all[0]);
   const result = (picked: number[], adjacent: boolean) => ({ samples: picked.map((p) => chain[p]), u: picked.map((p) => u[p]), adjacent });
   const positions = chain.map((_, p) => p);
   const window = positions.slice(skip).filter((p) => usable(chain[p])).slice(0, k);

@@ -19,7 +19,11 @@ export interface ExactNetworkSpec {
   trunkLengthM?: number;
   /** l_child / l_parent for every internode. */
   lengthRatio?: number;
-  /** Fractional radius loss along each internode (0 = cylinders); the rule holds between parent END and child START. */
+  /**
+   * Fractional radius loss along each internode (0 = cylinders), geometric: segment s of k has
+   * r_start·(1 − t)^(s/(k−1)); the rule holds between the parent's last segment (its END radius)
+   * and each child's first segment (START radius), as in the scan lab's generator.
+   */
   taperPerInternode?: number;
 }
 
@@ -45,14 +49,13 @@ export function exactExponentNetwork(spec: ExactNetworkSpec): Network {
     const step = node.length / k;
     for (let s = 0; s < k; s++) {
       const end: Vec3 = [p[0] + node.dir[0] * step, p[1] + node.dir[1] * step, p[2] + node.dir[2] * step];
-      const mid = (s + 0.5) / k;
       const id = segments.length;
-      segments.push(plainSegment(id, parent, p, end, node.radius * (1 - taper * mid), step));
+      segments.push(plainSegment(id, parent, p, end, node.radius * (1 - taper) ** (k > 1 ? s / (k - 1) : 0), step));
       parent = id;
       p = end;
     }
     if (node.level >= spec.depth) continue;
-    const endRadius = node.radius * (1 - taper);
+    const endRadius = node.radius * (k > 1 ? 1 - taper : 1);
     for (let i = 0; i < N; i++) {
       spin += 2.399963; // golden angle, rad: spreads children around the parent axis
       const tilt = i === 0 ? 0.2 : 0.7;

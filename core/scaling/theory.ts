@@ -44,8 +44,12 @@ export function theoryTable(
   ci: [number | null, number | null],
   pooledCi: [number | null, number | null],
 ): TheoryRow[] {
-  const inside = (v: number, c: [number | null, number | null]): boolean | null =>
-    c[0] === null || c[1] === null ? null : v >= c[0] && v <= c[1];
+  // A 1e-9 relative tolerance so that an exact tree's zero-width interval contains its own value.
+  const inside = (v: number, c: [number | null, number | null]): boolean | null => {
+    if (c[0] === null || c[1] === null) return null;
+    const tol = 1e-9 * Math.max(1, Math.abs(v));
+    return v >= c[0] - tol && v <= c[1] + tol;
+  };
   return values.map((t) => ({
     ...t,
     difference: Number.isFinite(estimate) ? t.value - estimate : null,

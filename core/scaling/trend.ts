@@ -1,5 +1,5 @@
 import type { Random } from '../util/random.js';
-import { spearman } from './stats.js';
+import { pearson, ranks } from './stats.js';
 
 export interface TrendTest {
   variable: string;
@@ -16,9 +16,12 @@ export interface TrendTest {
  */
 export function trendTest(variable: string, x: number[], y: number[], permutations: number, rng: Random): TrendTest {
   const n = x.length;
-  const rho = n >= 3 ? spearman(x, y) : NaN;
+  // Spearman's ρ is Pearson's r of the ranks; permuting the ranks of y once ranked is the same test.
+  const rx = ranks(x);
+  const ry = ranks(y);
+  const rho = n >= 3 ? pearson(rx, ry) : NaN;
   if (!Number.isFinite(rho)) return { variable, n, spearman_rho: null, p_value: null, permutations: 0 };
-  const perm = Float64Array.from(y);
+  const perm = Float64Array.from(ry);
   let extreme = 0;
   for (let p = 0; p < permutations; p++) {
     for (let i = n - 1; i > 0; i--) {
@@ -27,7 +30,7 @@ export function trendTest(variable: string, x: number[], y: number[], permutatio
       perm[i] = perm[j];
       perm[j] = t;
     }
-    if (Math.abs(spearman(x, perm)) >= Math.abs(rho) - 1e-12) extreme++;
+    if (Math.abs(pearson(rx, perm)) >= Math.abs(rho) - 1e-12) extreme++;
   }
   return { variable, n, spearman_rho: rho, p_value: (1 + extreme) / (permutations + 1), permutations };
 }

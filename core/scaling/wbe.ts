@@ -24,28 +24,41 @@ export interface WbeRatios {
 }
 
 export function wbeRatios(furcations: EvaluatedFurcation[]): WbeRatios {
-  let children = 0;
-  let logBeta = 0;
-  let nBeta = 0;
-  let logGamma = 0;
-  let nGamma = 0;
-  for (const f of furcations) {
-    children += f.childRadiiM.length;
-    for (let i = 0; i < f.childRadiiM.length; i++) {
-      logBeta += Math.log(f.childRadiiM[i] / f.parentRadiusM);
-      nBeta++;
-      const lc = f.record.childLengthsM[i];
-      const lp = f.record.parentLengthM;
-      if (lc > 0 && lp > 0) {
-        logGamma += Math.log(lc / lp);
-        nGamma++;
-      }
+  const parts = furcations.map(wbeParts);
+  return ratiosFromSums(sumParts(parts, parts.map((_, k) => k)));
+}
+
+/** Per furcation: children, Σ ln β, #β, Σ ln γ, #γ. */
+type Parts = [number, number, number, number, number];
+
+function wbeParts(f: EvaluatedFurcation): Parts {
+  const p: Parts = [f.childRadiiM.length, 0, 0, 0, 0];
+  for (let i = 0; i < f.childRadiiM.length; i++) {
+    p[1] += Math.log(f.childRadiiM[i] / f.parentRadiusM);
+    p[2]++;
+    const lc = f.record.childLengthsM[i];
+    const lp = f.record.parentLengthM;
+    if (lc > 0 && lp > 0) {
+      p[3] += Math.log(lc / lp);
+      p[4]++;
     }
   }
-  const nF = furcations.length;
-  const n = nF > 0 ? children / nF : NaN;
-  const beta = nBeta > 0 ? Math.exp(logBeta / nBeta) : NaN;
-  const gamma = nGamma > 0 ? Math.exp(logGamma / nGamma) : NaN;
+  return p;
+}
+
+function sumParts(parts: Parts[], pick: ArrayLike<number>): { nF: number; sums: Parts } {
+  const sums: Parts = [0, 0, 0, 0, 0];
+  for (let k = 0; k < pick.length; k++) {
+    const p = parts[pick[k]];
+    for (let j = 0; j < 5; j++) sums[j] += p[j];
+  }
+  return { nF: pick.length, sums };
+}
+
+function ratiosFromSums({ nF, sums }: { nF: number; sums: Parts }): WbeRatios {
+  const n = nF > 0 ? sums[0] / nF : NaN;
+  const beta = sums[2] > 0 ? Math.exp(sums[1] / sums[2]) : NaN;
+  const gamma = sums[4] > 0 ? Math.exp(sums[3] / sums[4]) : NaN;
   const ln = Math.log(n);
   return {
     n_furcations: nF,
@@ -65,15 +78,16 @@ export function wbeWithInterval(
   confidence: number,
   rng: Random,
 ): WbeRatios & { theta_ci95: [number | null, number | null]; exponent_from_beta_ci95: [number | null, number | null] } {
-  const point = wbeRatios(furcations);
+  const parts = furcations.map(wbeParts);
+  const point = ratiosFromSums(sumParts(parts, parts.map((_, k) => k)));
   const n = furcations.length;
   const theta = new Float64Array(replicates).fill(NaN);
   const aBeta = new Float64Array(replicates).fill(NaN);
   if (n > 0) {
-    const pick: EvaluatedFurcation[] = new Array(n);
+    const pick = new Int32Array(n);
     for (let b = 0; b < replicates; b++) {
-      for (let k = 0; k < n; k++) pick[k] = furcations[rng.int(n)];
-      const r = wbeRatios(pick);
+      for (let k = 0; k < n; k++) pick[k] = rng.int(n);
+      const r = ratiosFromSums(sumParts(parts, pick));
       theta[b] = r.theta ?? NaN;
       aBeta[b] = r.exponent_from_beta ?? NaN;
     }

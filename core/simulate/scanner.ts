@@ -29,8 +29,6 @@ export interface ScanStats {
 
 /** Lowest elevation a terrestrial scanner sees: a blind cone below the head (typical instrument, from memory). */
 const MIN_ELEVATION_DEG = -60;
-/** Spurious (clutter) returns happen within this range of the scanner (dust, insects, understory; common practice, no source). */
-const CLUTTER_MAX_RANGE_M = 30;
 /** Reflectance used for intensity; invented values of a plausible order (common practice, no source). */
 const REFLECTANCE = { wood: 0.45, ground: 0.3, leaf: 0.55 };
 /** Range at which intensity saturates; intensity ∝ ρ cos(incidence) / R² beyond it (lidar equation for extended targets, from memory). */
@@ -75,16 +73,48 @@ export function scanPositions(o: SimulateOptions, rng: Random): ScanPosition[] {
  * branches look thicker. Leaves and ground are hard targets (no edge model).
  * Gaussian range noise `range_noise_m` is added along the ray.
  *
+ * Each position draws noise and clutter from its own stream seeded by (`seed`, position id).
+ *
  * @returns the cloud (pointSourceId = position id, intensity; extra `segment_id` Int32, `label` Uint8)
  */
-export function scanScene(scene: Scene, o: SimulateOptions, positions: ScanPosition[], rng: Random): { cloud: PointCloud; stats: ScanStats } {
-  const halfDiv = (o.beam_divergence_mrad * 1e-3) / 2;
-  const w0 = o.beam_exit_diameter_m / 2;
+export function scanScene(scene: Scene, o: SimulateOptions, positions: ScanPosition[]): { cloud: PointCloud; stats: ScanStats } {
+  const ctx = prepareScan(scene, o, positions);
+  return assembleScan(positions.map((p) => scanOnePosition(ctx, p)));
+}
+
+/** Everything one position's scan needs; plain data and typed arrays, so it can go to a worker thread. */
+export interface ScanContext {
+  scene: Scene;
+  bvh: Bvh | null;
+  options: SimulateOptions;
+  box: { min: number[]; max: number[] };
+}
+
+/** The returns of one scan position, as trimmed columns. */
+export interface PositionScan {
+  id: number;
+  rays: number;
+  count: number;
+  x: Float64Array;
+  y: Float64Array;
+  z: Float64Array;
+  intensity: Uint16Array;
+  segment: Int32Array;
+  label: Uint8Array;
+  azimuthRangeDeg: [number, number];
+  elevationRangeDeg: [number, number];
+}
+
+/**
+ * Build the BVH over the primitives' boxes padded by the largest footprint radius any position
+ * can see (so near misses that still clip the beam are found).
+ */
+export function prepareScan(scene: Scene, o: SimulateOptions, positions: ScanPosition[]): ScanContext {
   const box = windowBox(scene, o);
   let maxDist = 0;
   for (const p of positions) maxDist = Math.max(maxDist, farthestCornerDistance(box, p));
   const reach = Math.min(maxDist, o.max_range_m);
-  const pad = w0 + reach * halfDiv + 1e-6;
+  const pad = o.beam_exit_diameter_m / 2 + (reach * o.beam_divergence_mrad * 1e-3) / 2 + 1e-6;
   const padded = scene.boxes.slice();
   for (let i = 0; i < scene.count; i++) {
     for (let a = 0; a < 3; a++) {
@@ -92,27 +122,60 @@ export function scanScene(scene: Scene, o: SimulateOptions, positions: ScanPosit
       padded[6 * i + 3 + a] += pad;
     }
   }
-  const bvh = scene.count > 0 ? buildBvh(padded) : null;
-  const sink = new PointSink(1 << 16);
-  const stats: ScanStats = { rays: 0, points: 0, pointsPerLabel: { wood: 0, ground: 0, clutter: 0, mixed: 0, leaf: 0 }, perPosition: [] };
-  for (const pos of positions) {
-    const before = sink.count;
-    const win = angularWindow(box, pos, o.angular_step_deg);
-    const rays = scanPosition(scene, bvh, o, pos, win, w0, halfDiv, rng, sink);
-    stats.rays += rays;
-    stats.perPosition.push({
-      id: pos.id,
-      rays,
-      points: sink.count - before,
-      azimuthRangeDeg: [win.az0 / DEG, (win.az0 + (win.nAz - 1) * win.step) / DEG],
-      elevationRangeDeg: [win.el0 / DEG, (win.el0 + (win.nEl - 1) * win.step) / DEG],
-    });
+  return { scene, bvh: scene.count > 0 ? buildBvh(padded) : null, options: o, box };
+}
+
+/**
+ * Scan from one position. Noise and clutter come from the position's own random stream, seeded
+ * by (`seed`, position id), so the result does not depend on the other positions or on the order
+ * (or thread) in which positions are scanned.
+ */
+export function scanOnePosition(ctx: ScanContext, pos: ScanPosition): PositionScan {
+  const o = ctx.options;
+  const win = angularWindow(ctx.box, pos, o.angular_step_deg);
+  const rng = createRandom((Math.imul(o.seed ^ 0x27d4eb2d, 0x9e3779b1) + pos.id * 0x85ebca6b) >>> 0);
+  const sink = new PointSink(1 << 14);
+  const halfDiv = (o.beam_divergence_mrad * 1e-3) / 2;
+  const rays = scanPosition(ctx.scene, ctx.bvh, o, pos, win, o.beam_exit_diameter_m / 2, halfDiv, farthestCornerDistance(ctx.box, pos), rng, sink);
+  return {
+    id: pos.id,
+    rays,
+    ...sink.columns(),
+    azimuthRangeDeg: [win.az0 / DEG, (win.az0 + (win.nAz - 1) * win.step) / DEG],
+    elevationRangeDeg: [win.el0 / DEG, (win.el0 + (win.nEl - 1) * win.step) / DEG],
+  };
+}
+
+/** Concatenate position scans (in the given order) into one cloud with its statistics. */
+export function assembleScan(parts: PositionScan[]): { cloud: PointCloud; stats: ScanStats } {
+  const n = parts.reduce((a, p) => a + p.count, 0);
+  const cloud = createPointCloud(new Float64Array(n), new Float64Array(n), new Float64Array(n));
+  const intensity = new Uint16Array(n);
+  const source = new Uint16Array(n);
+  const segment = new Int32Array(n);
+  const label = new Uint8Array(n);
+  const stats: ScanStats = { rays: 0, points: n, pointsPerLabel: { wood: 0, ground: 0, clutter: 0, mixed: 0, leaf: 0 }, perPosition: [] };
+  let at = 0;
+  for (const p of parts) {
+    cloud.x.set(p.x, at);
+    cloud.y.set(p.y, at);
+    cloud.z.set(p.z, at);
+    intensity.set(p.intensity, at);
+    source.fill(p.id, at, at + p.count);
+    segment.set(p.segment, at);
+    label.set(p.label, at);
+    at += p.count;
+    stats.rays += p.rays;
+    stats.perPosition.push({ id: p.id, rays: p.rays, points: p.count, azimuthRangeDeg: p.azimuthRangeDeg, elevationRangeDeg: p.elevationRangeDeg });
   }
-  const cloud = sink.toCloud();
-  stats.points = cloud.count;
-  const labels = cloud.extra.label as Uint8Array;
+  cloud.attributes.intensity = intensity;
+  cloud.attributes.pointSourceId = source;
+  cloud.attributes.returnNumber = new Uint8Array(n).fill(1);
+  cloud.attributes.numberOfReturns = new Uint8Array(n).fill(1);
+  cloud.extra.segment_id = segment;
+  cloud.extra.label = label;
   const names = Object.keys(LABEL) as (keyof typeof LABEL)[];
-  for (let i = 0; i < labels.length; i++) stats.pointsPerLabel[names[labels[i]]]++;
+  for (let i = 0; i < n; i++) stats.pointsPerLabel[names[label[i]]]++;
   return { cloud, stats };
 }
 
@@ -191,7 +254,7 @@ function angularWindow(box: { min: number[]; max: number[] }, p: ScanPosition, s
   };
 }
 
-/** Cast all rays of one position; returns the number of rays. */
+/** Cast all rays of one position; returns the number of rays. `clutterReachM` bounds clutter ranges (farthest corner of the scene box). */
 function scanPosition(
   scene: Scene,
   bvh: Bvh | null,
@@ -200,6 +263,7 @@ function scanPosition(
   win: Window,
   w0: number,
   halfDiv: number,
+  clutterReachM: number,
   rng: Random,
   sink: PointSink,
 ): number {
@@ -305,7 +369,11 @@ function scanPosition(
               f = footprintCoverage(dist, r, w);
               if (f < fMin) continue;
               t = dist < r ? rayCylinder(ox, oy, oz, dx, dy, dz, px[p], py[p], pz[p], ux[p], uy[p], uz[p], lengthM[p], r) : tca;
-              if (t === Infinity) t = tca;
+              if (t === Infinity) {
+                // The beam centre passes beyond an end of the cylinder: an edge return at best.
+                t = tca;
+                if (f >= fClean) f = 0.5 * (fMin + fClean);
+              }
             } else {
               t = rayDisc(ox, oy, oz, dx, dy, dz, px[p], py[p], pz[p], ux[p], uy[p], uz[p], radiusM[p]);
               if (t === Infinity) continue;
@@ -348,7 +416,10 @@ function scanPosition(
         }
       }
       if (clutter > 0 && rng.next() < clutter) {
-        range = rng.uniform(1, Math.min(range, CLUTTER_MAX_RANGE_M));
+        // Spurious returns (dust, insects, understory) in front of the target, within the scene
+        // box's reach and above the ground plane.
+        const below = dz < 0 ? -oz / dz : Infinity;
+        range = rng.uniform(Math.min(1, 0.5 * below), Math.min(range, clutterReachM, below));
         label = LABEL.clutter;
         seg = -1;
         intensity = rng.uniform(0.02, 0.3);
@@ -361,7 +432,7 @@ function scanPosition(
       const y = oy + sr * rx + cr * ry + sy;
       const z = oz + dz * range + sz;
       const rel = INTENSITY_REFERENCE_RANGE_M / Math.max(range, INTENSITY_REFERENCE_RANGE_M);
-      sink.push(x, y, z, Math.min(65535, Math.round(65535 * intensity * rel * rel)), pos.id, seg, label);
+      sink.push(x, y, z, Math.min(65535, Math.round(65535 * intensity * rel * rel)), seg, label);
     }
   }
   return win.nAz * win.nEl;
@@ -411,14 +482,13 @@ function cylinderIncidence(scene: Scene, p: number, ox: number, oy: number, oz: 
   return n > 0 ? Math.abs(dx * nx + dy * ny + dz * nz) / n : 1;
 }
 
-/** Growable columns for the scan output. */
+/** Growable columns for one position's returns. */
 class PointSink {
   count = 0;
   private x: Float64Array;
   private y: Float64Array;
   private z: Float64Array;
   private intensity: Uint16Array;
-  private source: Uint16Array;
   private segment: Int32Array;
   private label: Uint8Array;
 
@@ -427,19 +497,17 @@ class PointSink {
     this.y = new Float64Array(capacity);
     this.z = new Float64Array(capacity);
     this.intensity = new Uint16Array(capacity);
-    this.source = new Uint16Array(capacity);
     this.segment = new Int32Array(capacity);
     this.label = new Uint8Array(capacity);
   }
 
-  push(x: number, y: number, z: number, intensity: number, source: number, segment: number, label: number): void {
+  push(x: number, y: number, z: number, intensity: number, segment: number, label: number): void {
     if (this.count === this.x.length) this.grow();
     const i = this.count++;
     this.x[i] = x;
     this.y[i] = y;
     this.z[i] = z;
     this.intensity[i] = intensity;
-    this.source[i] = source;
     this.segment[i] = segment;
     this.label[i] = label;
   }
@@ -455,21 +523,21 @@ class PointSink {
     this.y = g(this.y, (k) => new Float64Array(k));
     this.z = g(this.z, (k) => new Float64Array(k));
     this.intensity = g(this.intensity, (k) => new Uint16Array(k));
-    this.source = g(this.source, (k) => new Uint16Array(k));
     this.segment = g(this.segment, (k) => new Int32Array(k));
     this.label = g(this.label, (k) => new Uint8Array(k));
   }
 
-  toCloud(): PointCloud {
+  columns(): Pick<PositionScan, 'count' | 'x' | 'y' | 'z' | 'intensity' | 'segment' | 'label'> {
     const n = this.count;
-    const cloud = createPointCloud(this.x.slice(0, n), this.y.slice(0, n), this.z.slice(0, n));
-    cloud.attributes.intensity = this.intensity.slice(0, n);
-    cloud.attributes.pointSourceId = this.source.slice(0, n);
-    cloud.attributes.returnNumber = new Uint8Array(n).fill(1);
-    cloud.attributes.numberOfReturns = new Uint8Array(n).fill(1);
-    cloud.extra.segment_id = this.segment.slice(0, n);
-    cloud.extra.label = this.label.slice(0, n);
-    return cloud;
+    return {
+      count: n,
+      x: this.x.slice(0, n),
+      y: this.y.slice(0, n),
+      z: this.z.slice(0, n),
+      intensity: this.intensity.slice(0, n),
+      segment: this.segment.slice(0, n),
+      label: this.label.slice(0, n),
+    };
   }
 }
 

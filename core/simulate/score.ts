@@ -127,9 +127,9 @@ export function scoreNetworks(truth: Network, reconstructed: Network, options: S
   const furcFound = new Float64Array(nClass);
   let found = 0;
   const furcCell = Math.max(options.furcation_tolerance_m, 2 * maxTrueRadius);
-  const reconGrid = new Map<string, [number, number, number][]>();
-  const keyOf = (p: [number, number, number], dx = 0, dy = 0, dz = 0): string =>
-    `${Math.floor(p[0] / furcCell) + dx},${Math.floor(p[1] / furcCell) + dy},${Math.floor(p[2] / furcCell) + dz}`;
+  const reconGrid = new Map<number, [number, number, number][]>();
+  const keyOf = (p: [number, number, number], dx = 0, dy = 0, dz = 0): number =>
+    cellKey(Math.floor(p[0] / furcCell) + dx, Math.floor(p[1] / furcCell) + dy, Math.floor(p[2] / furcCell) + dz);
   for (const g of reconF) {
     const k = keyOf(g.point);
     const list = reconGrid.get(k);
@@ -257,21 +257,29 @@ function furcationPoints(network: Network): { point: [number, number, number]; r
   return out;
 }
 
+/** Cell key of integer cell coordinates (±65 536 cells per axis fit in 51 bits). */
+function cellKey(x: number, y: number, z: number): number {
+  return ((x + 65536) * 131072 + (y + 65536)) * 131072 + (z + 65536);
+}
+
 /** Uniform grid over segment boxes for nearest-axis queries within a bounded distance. */
 class SegmentGrid {
-  private cells = new Map<string, number[]>();
+  private cells = new Map<number, number[]>();
+  private readonly units: Float64Array;
 
   constructor(
     private readonly segments: Segment[],
     private readonly cell: number,
   ) {
+    this.units = new Float64Array(3 * segments.length);
     segments.forEach((s, i) => {
+      this.units.set(unit(s), 3 * i);
       const lo = [0, 1, 2].map((a) => Math.floor(Math.min(s.start[a], s.end[a]) / cell));
       const hi = [0, 1, 2].map((a) => Math.floor(Math.max(s.start[a], s.end[a]) / cell));
       for (let x = lo[0]; x <= hi[0]; x++)
         for (let y = lo[1]; y <= hi[1]; y++)
           for (let z = lo[2]; z <= hi[2]; z++) {
-            const key = `${x},${y},${z}`;
+            const key = cellKey(x, y, z);
             const list = this.cells.get(key);
             if (list) list.push(i);
             else this.cells.set(key, [i]);
@@ -282,23 +290,22 @@ class SegmentGrid {
   /** Index of the nearest segment within `tol` whose direction agrees (|cos| ≥ cosMax), or -1. */
   nearest(p: [number, number, number], tol: number, dir: [number, number, number], cosMax: number): number {
     const reach = Math.ceil(tol / this.cell);
-    const c = p.map((v) => Math.floor(v / this.cell));
+    const cx = Math.floor(p[0] / this.cell);
+    const cy = Math.floor(p[1] / this.cell);
+    const cz = Math.floor(p[2] / this.cell);
     let best = -1;
     let bestD = tol;
-    const seen = new Set<number>();
-    for (let x = c[0] - reach; x <= c[0] + reach; x++)
-      for (let y = c[1] - reach; y <= c[1] + reach; y++)
-        for (let z = c[2] - reach; z <= c[2] + reach; z++) {
-          const list = this.cells.get(`${x},${y},${z}`);
+    // A segment spanning several cells is tested more than once; harmless for a minimum.
+    for (let x = cx - reach; x <= cx + reach; x++)
+      for (let y = cy - reach; y <= cy + reach; y++)
+        for (let z = cz - reach; z <= cz + reach; z++) {
+          const list = this.cells.get(cellKey(x, y, z));
           if (!list) continue;
           for (const i of list) {
-            if (seen.has(i)) continue;
-            seen.add(i);
-            const s = this.segments[i];
-            const d = pointSegmentDistance(p, s);
+            const d = pointSegmentDistance(p, this.segments[i]);
             if (d > bestD) continue;
-            const u = unit(s);
-            if (Math.abs(u[0] * dir[0] + u[1] * dir[1] + u[2] * dir[2]) < cosMax) continue;
+            const u = this.units;
+            if (Math.abs(u[3 * i] * dir[0] + u[3 * i + 1] * dir[1] + u[3 * i + 2] * dir[2]) < cosMax) continue;
             bestD = d;
             best = i;
           }

@@ -1,8 +1,10 @@
 import { treeMetrics } from '../topology/metrics.js';
 import type { PointCloud } from '../types/point-cloud.js';
 import { VERSION } from '../version.js';
+import { scanCoverage, type CoverageRow } from './coverage.js';
 import type { SimulateOptions } from './options.js';
 import { buildScene } from './scene.js';
+import { scanSceneParallel } from './parallel-scan.js';
 import { scanPositions, scanRandom, scanScene, type ScanPosition, type ScanStats } from './scanner.js';
 import { generateTree, type GeneratedTree } from './tree.js';
 
@@ -52,6 +54,8 @@ export interface TruthDocument {
     rays: number;
     points: number;
     points_per_label: Record<string, number>;
+    /** Share of true axis length (5 cm bins) with at least one return of its segment, per radius class. */
+    coverage_by_radius_class: CoverageRow[];
   };
   /** The resolved `simulate` options (generator and scan settings). */
   parameters: SimulateOptions;
@@ -63,17 +67,44 @@ export interface TruthDocument {
  * @param preset name of the preset the options came from, recorded in the truth
  */
 export function simulate(options: SimulateOptions, preset: string | null = null): VirtualScan {
+  const { tree, scene, positions } = prepare(options);
+  const { cloud, stats } = scanScene(scene, options, positions);
+  return finish(tree, positions, cloud, stats, options, preset);
+}
+
+/**
+ * `simulate` with the scan positions spread over worker threads; the same result, sooner.
+ * @param threads worker threads (1 = scan in the calling thread)
+ */
+export async function simulateParallel(options: SimulateOptions, preset: string | null = null, threads = 2): Promise<VirtualScan> {
+  const { tree, scene, positions } = prepare(options);
+  const { cloud, stats } = await scanSceneParallel(scene, options, positions, threads);
+  return finish(tree, positions, cloud, stats, options, preset);
+}
+
+function prepare(options: SimulateOptions) {
   const tree = generateTree(options);
   const rng = scanRandom(options.seed);
   const scene = buildScene(tree.network, tree.tipSegmentIds, options.leaves_per_tip, options.leaf_radius_m, rng);
   const positions = scanPositions(options, rng);
-  const { cloud, stats } = scanScene(scene, options, positions, rng);
+  return { tree, scene, positions };
+}
+
+function finish(tree: GeneratedTree, positions: ScanPosition[], cloud: PointCloud, stats: ScanStats, options: SimulateOptions, preset: string | null): VirtualScan {
   cloud.source = { format: 'generated', software: `xylemap ${VERSION} simulate` };
-  return { tree, positions, cloud, stats, truth: truthDocument(tree, positions, stats, options, preset) };
+  const coverage = scanCoverage(tree.network, cloud);
+  return { tree, positions, cloud, stats, truth: truthDocument(tree, positions, stats, options, preset, coverage) };
 }
 
 /** Build truth.json from a generated tree and its scan. */
-export function truthDocument(tree: GeneratedTree, positions: ScanPosition[], stats: ScanStats, options: SimulateOptions, preset: string | null): TruthDocument {
+export function truthDocument(
+  tree: GeneratedTree,
+  positions: ScanPosition[],
+  stats: ScanStats,
+  options: SimulateOptions,
+  preset: string | null,
+  coverage: CoverageRow[],
+): TruthDocument {
   const m = treeMetrics(tree.network);
   const byOrder: TruthDocument['tree']['counts_by_branch_order'] = [];
   const branchSets: Set<number>[] = [];
@@ -132,6 +163,7 @@ export function truthDocument(tree: GeneratedTree, positions: ScanPosition[], st
       rays: stats.rays,
       points: stats.points,
       points_per_label: { ...stats.pointsPerLabel },
+      coverage_by_radius_class: coverage,
     },
     parameters: options,
   };

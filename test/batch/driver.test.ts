@@ -3,7 +3,7 @@ import { tmpdir } from 'node:os';
 import { join } from 'node:path';
 import { describe, expect, it } from 'vitest';
 import type { TreeJob, TreeOutcome } from '../../core/batch/run-batch.js';
-import { mergeBatchFolders, runBatchFolder } from '../../core/io/batch-driver.js';
+import { batchConfig, mergeBatchFolders, runBatchFolder, treeConfig } from '../../core/io/batch-driver.js';
 import { hashFile } from '../../core/io/tree-outputs.js';
 import { XylemapError } from '../../core/util/errors.js';
 import { fakeSummary } from './fixtures.js';
@@ -155,7 +155,8 @@ describe('mergeBatchFolders', () => {
       ['oak', 'beech', 'spruce'].flatMap((s) => [0, 1, 2, 3].map((j) => `${s}-${j}`)).sort(),
     );
     const merged = join(c.dir, 'merged');
-    const r = mergeBatchFolders(shardDirs.slice().reverse(), merged, fast, undefined, c.inventory);
+    // no configuration: merge takes the batch options the shards recorded
+    const r = mergeBatchFolders(shardDirs.slice().reverse(), merged, undefined, undefined, c.inventory);
     expect(r.tree_count).toBe(12);
     expect(r.warnings).toEqual([]);
     for (const f of [...TABLES, 'plots.csv', 'stems.csv']) {
@@ -171,5 +172,25 @@ describe('mergeBatchFolders', () => {
     expect(mergeBatchFolders([a], join(c.dir, 'm1'), fast).warnings[0]).toContain('shard 1/2 not among the folders');
     expect(() => mergeBatchFolders([a, b], join(c.dir, 'm2'), fast)).toThrow(/more than one folder/);
     expect(() => mergeBatchFolders([c.dir], join(c.dir, 'm3'), fast)).toThrow(XylemapError);
+    const other = join(c.dir, 's1-other');
+    await runBatchFolder({ manifestPath: c.manifest, outDir: other, workers: 1, rawConfig: { batch: { seed: 5 } }, shard: { index: 1, count: 2, source: 'flag' }, processTree: fakeProcessor([]) });
+    expect(() => mergeBatchFolders([a, other], join(c.dir, 'm4'))).toThrow(/different batch options/);
+    expect(mergeBatchFolders([a, other], join(c.dir, 'm5'), fast).tree_count).toBe(12);
+  });
+});
+
+describe('treeConfig', () => {
+  it('resolves the pipeline blocks with the manifest preset as hydraulics.preset, without the batch block', () => {
+    const c = treeConfig({ batch: { seed: 3 }, scaling: { seed: 7 } }, 'conifer') as Record<string, Record<string, unknown>>;
+    expect(c.hydraulics.preset).toBe('conifer');
+    expect(c.scaling.seed).toBe(7);
+    expect(c.batch).toBeUndefined();
+  });
+});
+
+describe('batchConfig', () => {
+  it('fills the batch defaults and names the key path of a bad value', () => {
+    expect(batchConfig(undefined).confidence).toBe(0.95);
+    expect(() => batchConfig({ batch: { fit_dbh_source: 'tape' } }, 'x.yaml')).toThrow(/fit_dbh_source|scan, field/);
   });
 });

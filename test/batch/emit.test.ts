@@ -66,7 +66,10 @@ describe('formatK8sJob', () => {
     expect(doc.spec.parallelism).toBe(2);
     const c = doc.spec.template.spec.containers[0];
     expect(doc.spec.template.spec.restartPolicy).toBe('Never');
-    expect(c.args).toContain('/data/out/shard-$(JOB_COMPLETION_INDEX)');
+    expect(c.args).toContain('/data/out/shard-$(XYLEMAP_SHARD_INDEX)');
+    expect(c.args).toContain('$(XYLEMAP_SHARD_INDEX)/4');
+    // the downward-API field that carries the completion index (Kubernetes Indexed Job docs)
+    expect(c.env[0].valueFrom.fieldRef.fieldPath).toBe("metadata.annotations['batch.kubernetes.io/job-completion-index']");
     expect(c.resources.requests).toEqual({ cpu: '2', memory: '8Gi' });
     expect(doc.spec.template.spec.volumes[0].persistentVolumeClaim.claimName).toBe('stand-data');
   });

@@ -27,4 +27,10 @@ describe('resumeDecision', () => {
     expect(resumeDecision(required, required, run, { ...expected, inputSha256: 'abd' })).toEqual({ skip: false, reason: 'input changed' });
     expect(resumeDecision(required, required, run, { ...expected, options: { clean: { k: 2 } } })).toEqual({ skip: false, reason: 'options changed' });
   });
+  it('requires every file run.json lists as written', () => {
+    const run = { input: { sha256: 'abc' }, options: {}, outputs: ['segments.csv', 'summary.json', 'run.json'] };
+    const expected = { inputSha256: 'abc', options: {} };
+    expect(resumeDecision(['summary.json', 'run.json'], ['summary.json', 'run.json'], run, expected)).toEqual({ skip: false, reason: 'missing segments.csv' });
+    expect(resumeDecision(['segments.csv', 'summary.json', 'run.json'], ['summary.json', 'run.json'], run, expected)).toEqual({ skip: true });
+  });
 });

@@ -17,8 +17,9 @@ describe('fitDbh', () => {
 });
 
 describe('wbeQuantities', () => {
-  it('flattens the numeric WBE quantities one level deep', () => {
-    expect(wbeQuantities(fakeSummary(0.3, 2, 1))).toEqual({ beta: 0.7, gamma: 0.8, pooled_theta: 0.75 });
+  it('flattens the numeric WBE quantities one level deep, the pooled block without prefix', () => {
+    expect(wbeQuantities(fakeSummary(0.3, 2, 1))).toEqual({ beta: 0.7, gamma: 0.8, theta: 0.75 });
+    expect(wbeQuantities({ scaling: { wbe: { other: { x: 1 }, by_order: [{ x: 2 }] } } })).toEqual({ other_x: 1 });
     expect(wbeQuantities({})).toEqual({});
   });
 });

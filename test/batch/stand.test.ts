@@ -1,6 +1,6 @@
 import { describe, expect, it } from 'vitest';
 import { parseCsv } from '../../core/io/csv.js';
-import { cellNumber, formatStandCsv, inManifestOrder, numberAt, standRow, STAND_COLUMNS } from '../../core/batch/stand.js';
+import { cellNumber, formatStandCsv, inManifestOrder, numberAt, standRow, stringAt, STAND_COLUMNS } from '../../core/batch/stand.js';
 import { fakeStand, fakeSummary } from './fixtures.js';
 
 describe('numberAt', () => {
@@ -13,6 +13,14 @@ describe('numberAt', () => {
   });
 });
 
+describe('stringAt', () => {
+  it('follows a key path and gives "" for anything missing or not a string', () => {
+    expect(stringAt({ h: { preset: 'conifer' } }, ['h', 'preset'])).toBe('conifer');
+    expect(stringAt({ h: { preset: 3 } }, ['h', 'preset'])).toBe('');
+    expect(stringAt(undefined, ['h'])).toBe('');
+  });
+});
+
 describe('standRow', () => {
   it('takes the key figures from the documented summary.json keys', () => {
     const r = standRow({ index: 0, treeId: 't', species: 's', file: 'f', plot: '', preset: '', fieldDbhM: NaN, summary: fakeSummary(0.3, 2.2, 0.5) });
@@ -21,6 +29,10 @@ describe('standRow', () => {
     expect(r.exponentCiLow).toBeCloseTo(2.0, 15);
     expect(r.treeConductanceKgPerSPerMPa).toBe(0.5);
     expect(r.warningCount).toBe(1);
+    expect(r.preset).toBe('');
+    const withPreset = standRow({ index: 0, treeId: 't', species: 's', file: 'f', plot: '', preset: '', fieldDbhM: NaN, summary: { hydraulics: { preset: 'conifer' } } });
+    expect(withPreset.preset).toBe('conifer');
+    expect(withPreset.dbhM).toBeNaN();
   });
 });
 

@@ -1,6 +1,6 @@
 import { describe, expect, it } from 'vitest';
 import { analyseHydraulics, HYDRAULICS_COLUMNS } from '../../core/hydraulics/analyse.js';
-import { binaryTree } from './helpers.js';
+import { binaryTree, singlePipe } from './helpers.js';
 
 /**
  * A generated tree of stem-base diameter D: symmetric binary branching with da Vinci radii
@@ -81,6 +81,26 @@ describe('analyseHydraulics', () => {
   it('states that the results are model estimates, not measurements or a safety assessment', () => {
     expect(s.caution).toMatch(/model estimates/i);
     expect(s.caution).toMatch(/not a tree-safety assessment/);
+  });
+
+  it.each([
+    { conduit_rule: 'murray', count_rule: 'lumen_fraction' },
+    { conduit_rule: 'murray', count_rule: 'pipe_model', sapwood_rule: 'sapwood_fraction' },
+    { count_rule: 'lumen_fraction', vulnerability_curve: 'weibull', tip_flux_rule: 'equal' },
+    { preset: 'conifer', temperature_c: 5 },
+    { preset: 'ring-porous', gravity: false },
+  ])('keeps reduction and Kirchhoff within 1e-10 and a steady state under rules %o', (rules) => {
+    const r = analyseHydraulics(small, rules).summary as Record<string, any>;
+    expect(r.solver_relative_difference).toBeLessThan(1e-10);
+    expect(r.tree_conductance_kg_s_mpa).toBeGreaterThan(0);
+    expect(r.steady_state).toBe('converged');
+  });
+
+  it('handles a network of a single segment', () => {
+    const r = analyseHydraulics(singlePipe(0.02, 2), {}).summary as Record<string, any>;
+    expect(r.tip_count).toBe(1);
+    expect(r.conduit_diameter_tips_um).toBe(r.conduit_diameter_base_um);
+    expect(r.max_path_length_m).toBeCloseTo(2, 12);
   });
 
   it('rejects an unknown option naming it', () => {

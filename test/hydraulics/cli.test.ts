@@ -56,8 +56,9 @@ describe('register', () => {
     expect(b.hydraulics.temperature_c).toBe(30);
   });
 
-  it('prints the caution in its text output', async () => {
-    const text = await run([join(dir, 'segments.csv'), '--out', join(dir, 'c')]);
+  it('prints the caution in its text output, given the folder instead of the file', async () => {
+    const text = await run([dir, '--out', join(dir, 'c')]);
+    expect(existsSync(join(dir, 'c', 'segments.csv'))).toBe(true);
     expect(text).toMatch(/not measurements, and not a tree-safety assessment/);
   });
 

@@ -2,7 +2,7 @@ import { describe, expect, it } from 'vitest';
 import { SegmentTree } from '../../core/topology/node-tree.js';
 import { createRandom } from '../../core/util/random.js';
 import type { Segment } from '../../core/types/network.js';
-import { solveKirchhoff, treeConductanceByKirchhoff } from '../../core/hydraulics/kirchhoff.js';
+import { KirchhoffSystem, solveKirchhoff, treeConductanceByKirchhoff, treeEliminationOrder, treeNetwork } from '../../core/hydraulics/kirchhoff.js';
 import { subtreeConductances, treeConductanceByReduction } from '../../core/hydraulics/reduction.js';
 import { binaryTree, segment } from './helpers.js';
 
@@ -128,5 +128,40 @@ describe('solveKirchhoff', () => {
   it('refuses a network in which no node has a fixed potential', () => {
     const net = { nodeCount: 2, edgeFrom: Int32Array.from([0]), edgeTo: Int32Array.from([1]), conductance: Float64Array.from([1]) };
     expect(() => solveKirchhoff(net, { fixedPotential: Float64Array.from([Number.NaN, Number.NaN]) })).toThrow(/no node of fixed potential/);
+  });
+});
+
+describe('KirchhoffSystem', () => {
+  it('gives the same potentials on repeated solves with new conductances as a fresh solve', () => {
+    const { tree, g } = randomTree(200, 9);
+    const net = treeNetwork(tree, g);
+    const mask = new Array<boolean>(net.nodeCount).fill(false);
+    mask[0] = true;
+    const system = new KirchhoffSystem(net, mask, treeEliminationOrder(tree));
+    const fixed = new Float64Array(net.nodeCount).fill(Number.NaN);
+    fixed[0] = -0.5;
+    const injection = new Float64Array(net.nodeCount);
+    for (let i = 0; i < tree.size; i++) if (tree.isTip(i)) injection[i + 1] = -1e-4;
+    system.solve(fixed, { injection });
+    const halved = g.map((x) => x / 2);
+    const again = system.solve(fixed, { conductance: halved, injection });
+    const fresh = solveKirchhoff({ ...net, conductance: halved }, { fixedPotential: fixed, injection });
+    // The fresh solve uses node order (IC(0) then inexact, CG iterates): compare relatively.
+    for (let v = 0; v < net.nodeCount; v++) expect(Math.abs(again.potential[v] - fresh.potential[v])).toBeLessThan(1e-9 * Math.abs(fresh.potential[v]));
+  });
+});
+
+describe('treeEliminationOrder', () => {
+  it('numbers every node after all nodes below it, so IC(0) is exact and CG takes one step', () => {
+    // No fill-in when a tree is eliminated leaves first (George & Liu 1981).
+    const { tree, g } = randomTree(300, 4);
+    const order = treeEliminationOrder(tree);
+    const position = new Int32Array(order.length);
+    order.forEach((node, k) => (position[node] = k));
+    for (let i = 0; i < tree.size; i++) {
+      const parentNode = tree.parent[i] >= 0 ? tree.parent[i] + 1 : 0;
+      expect(position[i + 1]).toBeLessThan(position[parentNode]);
+    }
+    expect(treeConductanceByKirchhoff(tree, g).iterations).toBe(1);
   });
 });

@@ -2,22 +2,30 @@ import { describe, expect, it } from 'vitest';
 import { createRandom } from '../../core/util/random.js';
 import { csrFromTriplets, csrMultiply, incompleteCholesky, solveSpd } from '../../core/hydraulics/sparse.js';
 
-/** A random sparse SPD matrix: a weighted graph Laplacian plus a positive diagonal (strictly diagonally dominant). */
-function randomSpd(n: number, seed: number) {
-  const rnd = createRandom(seed);
+function triplets() {
   const rows: number[] = [];
   const cols: number[] = [];
   const vals: number[] = [];
+  return { rows, cols, vals, add: (r: number, c: number, v: number) => (rows.push(r), cols.push(c), vals.push(v)) };
+}
+
+/** A random sparse SPD matrix: a weighted graph Laplacian plus a positive diagonal (strictly diagonally dominant). */
+function randomSpd(n: number, seed: number) {
+  const rnd = createRandom(seed);
+  const t = triplets();
   for (let i = 0; i < n; i++) {
-    rows.push(i), cols.push(i), vals.push(0.1 + rnd.next());
+    t.add(i, i, 0.1 + rnd.next());
     for (let k = 0; k < 3; k++) {
       const j = rnd.int(n);
       if (j === i) continue;
       const w = rnd.uniform(0.01, 10);
-      rows.push(i, j, i, j), cols.push(j, i, i, j), vals.push(-w, -w, w, w);
+      t.add(i, j, -w);
+      t.add(j, i, -w);
+      t.add(i, i, w);
+      t.add(j, j, w);
     }
   }
-  return csrFromTriplets(n, rows, cols, vals);
+  return csrFromTriplets(n, t.rows, t.cols, t.vals);
 }
 
 describe('csrFromTriplets', () => {
@@ -42,14 +50,15 @@ describe('incompleteCholesky', () => {
     // A path graph is a tree: numbered in order, elimination creates no fill-in (George & Liu 1981,
     // Computer Solution of Large Sparse Positive Definite Systems), so IC(0) = Cholesky.
     const n = 6;
-    const r: number[] = [];
-    const c: number[] = [];
-    const v: number[] = [];
+    const t = triplets();
     for (let i = 0; i < n; i++) {
-      r.push(i), c.push(i), v.push(2.5);
-      if (i > 0) r.push(i, i - 1), c.push(i - 1, i), v.push(-1, -1);
+      t.add(i, i, 2.5);
+      if (i > 0) {
+        t.add(i, i - 1, -1);
+        t.add(i - 1, i, -1);
+      }
     }
-    const a = csrFromTriplets(n, r, c, v);
+    const a = csrFromTriplets(n, t.rows, t.cols, t.vals);
     const f = incompleteCholesky(a)!;
     // Check L Lᵀ = A entry by entry.
     const dense = (i: number, j: number): number => {

@@ -1,5 +1,5 @@
 import { describe, expect, it } from 'vitest';
-import { huberLocation, madSigma, olsLine, quantileSorted, ranks, spearman } from '../../core/scaling/stats.js';
+import { huberLocation, madSigma, medianInPlace, olsLine, quantileSorted, ranks, spearman } from '../../core/scaling/stats.js';
 
 // Reference values computed with numpy 2.4 / scipy 1.17 on this machine (np.percentile default,
 // scipy.stats.median_abs_deviation(scale='normal'), scipy.stats.spearmanr, scipy.stats.linregress).
@@ -51,5 +51,19 @@ describe('olsLine', () => {
     expect(f.slope).toBeCloseTo(0.5071247819461442, 12);
     expect(f.intercept).toBeCloseTo(-2.3412073458371125, 12);
     expect(f.r2).toBeCloseTo(0.9958112042423366 ** 2, 12);
+  });
+});
+
+describe('medianInPlace', () => {
+  it('agrees with the sorted-copy median on seeded random buffers of odd and even length', () => {
+    // Definition of the sample median (middle order statistic, mean of the two middle ones).
+    let seed = 7;
+    const next = () => ((seed = (seed * 1103515245 + 12345) % 2147483648) / 2147483648);
+    for (const n of [1, 2, 3, 10, 11, 100, 101]) {
+      const values = Array.from({ length: n }, () => Math.floor(next() * 20));
+      const sorted = [...values].sort((x, y) => x - y);
+      const expected = n % 2 ? sorted[(n - 1) / 2] : (sorted[n / 2 - 1] + sorted[n / 2]) / 2;
+      expect(medianInPlace(Float64Array.from([...values, 99, 99]), n)).toBe(expected);
+    }
   });
 });

@@ -14,7 +14,9 @@ import { madScale, robustPsi, robustWeights, type RobustLoss } from './robust.js
  *
  * Model: distance of point p to the surface d = |(p − c) × a| − r (c a point on the axis,
  * a the unit axis direction, r the radius). Start: axis from PCA of the points (or given), circle
- * from Taubin's algebraic fit of the points projected on the plane normal to the axis. Refine:
+ * from Taubin's algebraic fit of the points projected on the plane normal to the axis — for the
+ * robust losses the better (by median residual) of that and a least-median-of-squares circle,
+ * re-fitted with biweight weights, so outliers cannot drag the start. Refine:
  * Levenberg–Marquardt (Marquardt 1963, J. SIAM 11:431) on 5 parameters with analytic
  * derivatives, inside iteratively reweighted least squares with Tukey's biweight or Huber's loss
  * and a MAD scale.
@@ -41,7 +43,10 @@ export interface CylinderFit {
   radiusSeM: number;
   /** Root mean square of the inliers' point-to-surface distances, m. */
   rmseM: number;
-  /** Fraction of `ARC_SECTORS` angular sectors around the axis holding at least one inlier. */
+  /**
+   * Fraction of the `ARC_SECTORS` angular sectors around the axis that hold inliers (at least one,
+   * and at least a tenth of an even share of them).
+   */
   arcCoverage: number;
   pointCount: number;
   /** Points within 3 robust σ of the surface. */
@@ -66,6 +71,11 @@ export interface CylinderFitOptions {
   maxIterations?: number;
   /** Robust loss (default 'tukey'). */
   robust?: RobustLoss;
+  /**
+   * Prior weight per point, indexed like `x` (e.g. lower for weak edge returns). Multiplies the
+   * robust weights; points with weight ≤ 0 (or NaN) are left out. Default: all 1.
+   */
+  weights?: ArrayLike<number>;
 }
 
 /** Fewest points for which a 5-parameter fit is attempted. */
@@ -105,6 +115,8 @@ export function fitCylinder(
   indices: ArrayLike<number>,
   options: CylinderFitOptions = {},
 ): CylinderFit | null {
+  const prior = options.weights;
+  if (prior) indices = positiveWeightIndices(indices, prior);
   const n = indices.length;
   if (!(n >= MIN_CYLINDER_POINTS)) return null;
   const loss: RobustLoss = options.robust ?? 'tukey';
@@ -131,6 +143,8 @@ export function fitCylinder(
   const px = ws.px;
   const py = ws.py;
   const pz = ws.pz;
+  ws.hasPrior = prior !== undefined;
+  if (prior) for (let k = 0; k < n; k++) ws.pw[k] = prior[indices[k]];
   let cxx = 0, cxy = 0, cxz = 0, cyy = 0, cyz = 0, czz = 0;
   for (let k = 0; k < n; k++) {
     const i = indices[k];
@@ -149,7 +163,6 @@ export function fitCylinder(
   }
   const e = ws.eig;
   eigenSymmetric3(cxx / n, cxy / n, cxz / n, cyy / n, cyz / n, czz / n, e);
-  const l0 = e[0];
   const l1 = e[1];
   const l2 = e[2];
   // Collinear or coincident points: no cross-section to fit.
@@ -164,7 +177,7 @@ export function fitCylinder(
   } else {
     candidates.push([e[9], e[10], e[11]]);
     // A stub shorter than it is wide: its spread along the axis can be the smallest, not the
-    // largest. Then try the other principal directions too and keep the tightest fit.
+    // largest. Then try the other principal directions too.
     if (l2 < 1.5 * l1) {
       candidates.push([e[3], e[4], e[5]]);
       candidates.push([e[6], e[7], e[8]]);
@@ -215,11 +228,12 @@ class Workspace {
   readonly psi: Float64Array;
   readonly dpsi: Float64Array;
   readonly eig = new Float64Array(12);
-  readonly terms = new Float64Array(3);
   readonly h = new Float64Array(25);
   readonly m = new Float64Array(25);
   readonly g = new Float64Array(5);
   readonly step = new Float64Array(5);
+  readonly pw: Float64Array;
+  hasPrior = false;
   roundingFloor = 0;
   constructor(n: number, buf: Float64Array) {
     this.n = n;
@@ -237,14 +251,15 @@ class Workspace {
     this.j3 = buf.subarray(11 * n, 12 * n);
     this.psi = buf.subarray(12 * n, 13 * n);
     this.dpsi = buf.subarray(13 * n, 14 * n);
+    this.pw = buf.subarray(14 * n, 15 * n);
   }
 }
 
 /**
- * One buffer reused across fits: allocating 64 kB per 1000-point fit made garbage collection a
- * fifth of the run time (measured). Safe because a fit runs to completion synchronously.
+ * One buffer reused across fits, so a fit allocates only a few small objects (the pipeline runs
+ * tens of thousands of fits). Safe because a fit runs to completion synchronously.
  */
-const WORK_ARRAYS = 14;
+const WORK_ARRAYS = 15;
 let sharedBuffer = new Float64Array(WORK_ARRAYS * 1024);
 function workspace(n: number): Workspace {
   if (sharedBuffer.length < WORK_ARRAYS * n) {
@@ -306,6 +321,24 @@ function footOfOrigin(c: Vec3, a: Vec3): Vec3 {
 
 function setWeights(ws: Workspace, loss: RobustLoss, sigma: number): void {
   robustWeights(loss, ws.d, ws.w, ws.n, sigma);
+  applyPrior(ws, ws.w);
+}
+
+/** Multiply per-point values by the prior weights, if any. */
+function applyPrior(ws: Workspace, a: Float64Array): void {
+  if (!ws.hasPrior) return;
+  const { pw, n } = ws;
+  for (let i = 0; i < n; i++) a[i] *= pw[i];
+}
+
+/** The entries of `indices` whose weight is > 0. */
+function positiveWeightIndices(indices: ArrayLike<number>, weights: ArrayLike<number>): Int32Array {
+  let m = 0;
+  for (let k = 0; k < indices.length; k++) if (weights[indices[k]] > 0) m++;
+  const out = new Int32Array(m);
+  m = 0;
+  for (let k = 0; k < indices.length; k++) if (weights[indices[k]] > 0) out[m++] = indices[k];
+  return out;
 }
 
 /**
@@ -376,7 +409,7 @@ function startCircle(ws: Workspace, axis: Vec3, loss: RobustLoss, floor: number,
     u[i] = px[i] * e1[0] + py[i] * e1[1] + pz[i] * e1[2];
     v[i] = px[i] * e2[0] + py[i] * e2[1] + pz[i] * e2[2];
   }
-  let circle: Circle | null = fitCircleTaubin(u, v, n);
+  let circle: Circle | null = ws.hasPrior ? fitCircleTaubinWeighted(u, v, ws.pw, n) : fitCircleTaubin(u, v, n);
   if (!circle) return null;
   if (loss === 'none') {
     return { axis, circle, medianAbsM: needMedian ? medianAbsResidual(u, v, n, circle, ws.scratch) : 0 };
@@ -402,6 +435,7 @@ function startCircle(ws: Workspace, axis: Vec3, loss: RobustLoss, floor: number,
     }
     const sigma = robustSigma(ws, floor, cr);
     robustWeights('tukey', d, w, n, sigma);
+    applyPrior(ws, w);
     const next = fitCircleTaubinWeighted(u, v, w, n);
     if (!next) break;
     const nextMed = medianAbsResidual(u, v, n, next, ws.scratch);
@@ -496,10 +530,16 @@ function refine(ws: Workspace, start: Start, loss: RobustLoss, maxIt: number, fl
       if (!accepted) roundConverged = true; // no descent direction left: at a minimum
       if (roundConverged) break;
     }
-    if (r < 0) r = -r; // a negative radius describes the same surface
+    if (r < 0) r = -r; // safety only: LM never accepts a step through zero radius on real data
     if (!roundConverged && iterations >= maxIt) break; // iteration budget spent
     // Fixed weights (no loss) need one round; otherwise stop once reweighting no longer moves it.
-    if (loss === 'none' || (round > 0 && moved <= Math.max(1e-8 * Math.max(r, 1e-3), MOVE_TOL_SIGMA * sigma))) {
+    // With few points the biweight can flip a point in and out between rounds; the last round then
+    // holds its weights and runs LM to convergence, a stationary point of that weighted problem.
+    if (
+      loss === 'none' ||
+      (round > 0 && moved <= Math.max(1e-8 * Math.max(r, 1e-3), MOVE_TOL_SIGMA * sigma)) ||
+      (round === REWEIGHT_ROUNDS - 1 && roundConverged)
+    ) {
       converged = true;
       break;
     }
@@ -593,7 +633,7 @@ function finish(
   const sigma = f.scale;
   const limit = INLIER_SIGMAS * sigma;
   const [e1, e2] = frame(a);
-  const sectorsHit = new Uint8Array(ARC_SECTORS);
+  const sectorCount = new Int32Array(ARC_SECTORS);
   let inliers = 0;
   let sse = 0;
   let sx = 0, sy = 0, sz = 0;
@@ -603,6 +643,8 @@ function finish(
   // loops without per-point calls.
   const { j0, j1, j2, j3, psi, dpsi } = ws;
   robustPsi(loss, d, n, sigma, psi, dpsi);
+  applyPrior(ws, psi);
+  applyPrior(ws, dpsi);
   const c0 = c[0], c1 = c[1], c2 = c[2];
   for (let i = 0; i < n; i++) {
     const qx = px[i] - c0;
@@ -625,7 +667,7 @@ function finish(
       if (ang < 0) ang += 2 * Math.PI;
       let s = Math.floor((ang / (2 * Math.PI)) * ARC_SECTORS);
       if (s >= ARC_SECTORS) s = ARC_SECTORS - 1;
-      sectorsHit[s] = 1;
+      sectorCount[s]++;
     }
     if (!(rho > 0)) {
       psi[i] = 0;
@@ -651,7 +693,10 @@ function finish(
   weightedGram(j0, j1, j2, j3, psi, n, B);
   if (inliers === 0) return null;
   let covered = 0;
-  for (let s = 0; s < ARC_SECTORS; s++) covered += sectorsHit[s];
+  // A sector counts when it holds a tenth of its even share of inliers (at least one), so a few
+  // stray points near the surface do not fake coverage (common practice, no source).
+  const minPerSector = Math.max(1, Math.round((0.1 * inliers) / ARC_SECTORS));
+  for (let s = 0; s < ARC_SECTORS; s++) if (sectorCount[s] >= minPerSector) covered++;
   const radiusSe = sandwichRadiusSe(A, B, used);
   // Axis point nearest the inliers' centroid.
   const mx = sx / inliers;

@@ -1,4 +1,14 @@
-/** Cylinder-fit maths for reconstruction: eigen solver, PCA, circle and cylinder fits, reliability, radius correction. */
+/**
+ * Cylinder-fit maths for reconstruction: eigen solver, PCA, circle and cylinder fits, reliability,
+ * radius correction.
+ *
+ * Typical use by the pipeline, per network:
+ *   1. per segment: `fit = fitCylinder(x, y, z, points, { initialAxis, rangeNoiseM })`;
+ *      `{ reliable, reason } = assessReliability(fit, reliabilityRuleOf(opts, pointSpacingM))`;
+ *      store radiusM = radiusFitM = fit.radiusM, radiusSeM, fitRmseM, arcCoverage, pointCount.
+ *   2. once the parent links exist (branch ids help but are derived if all equal):
+ *      `{ segments, summary } = correctRadii(segments, SegmentTree.fromNetwork(segments), correctionOptionsOf(opts))`.
+ */
 export { eigenSymmetric3 } from './eigen3.js';
 export { pca, shapeFeatures, type PcaResult } from './pca.js';
 export {

@@ -49,7 +49,7 @@ export const fitOptions = defineOptions('fit', 'Cylinder fitting, reliability fl
   },
   below_noise_factor: {
     type: 'number',
-    default: 5,
+    default: 2,
     unit: '1',
     min: 0,
     max: 100,

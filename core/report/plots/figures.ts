@@ -10,6 +10,12 @@ export const THEORY_EXPONENTS = [
   { value: 3, label: 'Murray a = 3' },
 ] as const;
 
+/**
+ * Most dots drawn in one scatter plot; larger sets are thinned by a fixed stride (no randomness, so
+ * the report repeats byte for byte). Keeps a 20 000-segment report's SVG small enough to parse fast.
+ */
+export const MAX_SCATTER_DOTS = 1500;
+
 /** Equal-width histogram of finite values over [lo, hi]; the last bin includes hi. */
 export function histogram(values: number[], bins: number, lo: number, hi: number): { edges: number[]; counts: number[] } {
   const w = (hi - lo) / bins;
@@ -77,8 +83,7 @@ export function radiusOrderPlot(network: Network): string {
   const x = logScale(1, Math.max(2, ...xs), ...r.x);
   const y = logScale(Math.min(...ys), Math.max(...ys), ...r.y);
   const plot = new SvgPlot('radius-order', title, DEFAULT_AREA, x, y, 'Strahler order', 'radius (m)');
-  // Jitter-free thinning: at most ~4000 dots keep the SVG small for very large networks.
-  const step = Math.max(1, Math.ceil(segs.length / 4000));
+  const step = Math.max(1, Math.ceil(segs.length / MAX_SCATTER_DOTS));
   const tx: number[] = [];
   const ty: number[] = [];
   for (let i = 0; i < segs.length; i += step) {
@@ -115,7 +120,7 @@ export function conduitPlot(profiles: NetworkProfiles, conduitDiameterUm: Float6
   const xs: number[] = [];
   const ys: number[] = [];
   const n = conduitDiameterUm.length;
-  const step = Math.max(1, Math.ceil(n / 4000));
+  const step = Math.max(1, Math.ceil(n / MAX_SCATTER_DOTS));
   for (let i = 0; i < n; i += step) {
     const d = conduitDiameterUm[i];
     const l = profiles.distanceFromApexM[i];

@@ -28,6 +28,12 @@ export interface ViewerPayload {
   /** base64 Float32Array: 1 per segment, m. */
   radius: string;
   layers: ViewerLayer[];
+  /** base64 Float32Array: segment_id per segment (exact below 2^24). */
+  segmentIds: string;
+  /** Reliability reason codes; `reasonIndex` points into it (−1 = reliable). */
+  reasons: string[];
+  /** base64 Float32Array: index into `reasons` per segment. */
+  reasonIndex: string;
   initial: string;
   minDrawRadiusPx: number;
 }

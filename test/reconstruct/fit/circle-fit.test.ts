@@ -1,8 +1,10 @@
 import { describe, expect, it } from 'vitest';
 import {
+  fitCircleLmeds,
   fitCirclePratt,
   fitCircleTaubin,
   fitCircleTaubinWeighted,
+  medianAbsResidual,
   refineCircleGeometric,
 } from '../../../core/reconstruct/fit/circle-fit.js';
 import { createRandom } from '../../../core/util/random.js';
@@ -155,5 +157,43 @@ describe('refineCircleGeometric', () => {
     let meanRho = 0;
     for (let i = 0; i < u.length; i++) meanRho += Math.hypot(u[i] - ref.cu, v[i] - ref.cv);
     expect(ref.radius).toBeCloseTo(meanRho / u.length, 8);
+  });
+});
+
+describe('fitCircleLmeds', () => {
+  it('recovers a half-arc circle with 40 % gross outliers where Taubin fails', () => {
+    // Least median of squares has a 50 % breakdown point (Rousseeuw 1984, JASA 79:871);
+    // algebraic fits have breakdown point 0.
+    const rnd = createRandom(31);
+    const n = 200;
+    const u = new Float64Array(n);
+    const v = new Float64Array(n);
+    for (let i = 0; i < n; i++) {
+      const th = rnd.uniform(0, Math.PI);
+      const rr = i % 5 < 2 ? rnd.uniform(0, 3) : 1 + 0.002 * rnd.normal();
+      u[i] = rr * Math.cos(th);
+      v[i] = rr * Math.sin(th);
+    }
+    const l = fitCircleLmeds(u, v)!;
+    expect(Math.abs(l.circle.radius - 1)).toBeLessThan(0.02);
+    expect(Math.hypot(l.circle.cu, l.circle.cv)).toBeLessThan(0.02);
+    expect(Math.abs(fitCircleTaubin(u, v)!.radius - 1)).toBeGreaterThan(0.05);
+    // repeatable: the triples come from a fixed seed
+    expect(fitCircleLmeds(u, v)).toEqual(l);
+  });
+
+  it('returns null with fewer than 3 points or only collinear points', () => {
+    // Degenerate input rule.
+    expect(fitCircleLmeds([0, 1], [0, 1])).toBeNull();
+    expect(fitCircleLmeds([0, 1, 2, 3], [0, 1, 2, 3])).toBeNull();
+  });
+});
+
+describe('medianAbsResidual', () => {
+  it('is the median distance of the points from the circle line', () => {
+    // Points at radii 1, 2, 4 around the origin: |ρ − 2| = 1, 0, 2 → median 1.
+    const u = [1, 0, -4];
+    const v = [0, 2, 0];
+    expect(medianAbsResidual(u, v, 3, { cu: 0, cv: 0, radius: 2 }, new Float64Array(3))).toBe(1);
   });
 });

@@ -1,5 +1,6 @@
 import { describe, expect, it } from 'vitest';
-import { ARC_SECTORS, fitCylinder, type CylinderFit } from '../../../core/reconstruct/fit/cylinder-fit.js';
+import { ARC_SECTORS, cholSolve5, fitCylinder, type CylinderFit } from '../../../core/reconstruct/fit/cylinder-fit.js';
+import { createRandom } from '../../../core/util/random.js';
 import {
   basis,
   distanceToLine,
@@ -99,6 +100,22 @@ describe('fitCylinder', () => {
     });
   }
 
+  it('gives a radius standard error that matches the replicate spread under Tukey weights with 15 % outliers', () => {
+    // M-estimator sandwich covariance (Huber 1981, §7.6) is consistent for down-weighted fits.
+    const radii: number[] = [];
+    const ses: number[] = [];
+    for (let seed = 1; seed <= 40; seed++) {
+      const f = fit({ n: 300, radiusM: 0.05, lengthM: 0.3, arcRad: 2 * Math.PI, noiseM: 0.001, outlierFraction: 0.15, axis: TILTED, seed: 500 + seed });
+      radii.push(f.radiusM);
+      ses.push(f.radiusSeM);
+    }
+    const mean = radii.reduce((a, b) => a + b, 0) / radii.length;
+    const sd = Math.sqrt(radii.reduce((a, b) => a + (b - mean) ** 2, 0) / (radii.length - 1));
+    const meanSe = ses.reduce((a, b) => a + b, 0) / ses.length;
+    // 40 replicates: sample SD within ±35 % of the truth with >99 % probability (χ², 39 dof)
+    expect(Math.abs(meanSe / sd - 1)).toBeLessThan(0.35);
+  });
+
   it('excludes outliers from the inlier count and the RMSE', () => {
     // Inliers are points within 3 robust σ of the surface (common practice, no source).
     const s = sampleCylinder({ n: 500, radiusM: 0.06, lengthM: 0.3, arcRad: 2 * Math.PI, noiseM: 0.001, outlierFraction: 0.15, seed: 21 });
@@ -147,6 +164,31 @@ describe('fitCylinder', () => {
     expect(f.arcCoverage).toBeLessThanOrEqual(4 / ARC_SECTORS);
   });
 
+  it('does not count a sector holding only a few stray surface points as covered', () => {
+    // Coverage rule documented in cylinder-fit.ts: a sector needs a tenth of its even share of inliers.
+    const s = sampleCylinder({ n: 800, radiusM: 0.05, lengthM: 0.3, arcRad: Math.PI, noiseM: 0.0005, seed: 14 });
+    // three stray points exactly on the surface, on the far side (angles 200°–340°)
+    for (const [k, deg] of [[0, 200], [1, 270], [2, 340]] as const) {
+      const th = (deg * Math.PI) / 180;
+      s.x[k] = 0.05 * Math.cos(th);
+      s.y[k] = 0.05 * Math.sin(th);
+    }
+    const f = fitCylinder(s.x, s.y, s.z, s.indices, { initialAxis: [0, 0, 1] })!;
+    expect(f.arcCoverage).toBeLessThanOrEqual(9 / ARC_SECTORS);
+  });
+
+  it('leaves out points of zero prior weight and fits the rest exactly', () => {
+    // Prior weights multiply the robust weights; weight 0 removes a point (weighted least squares).
+    const s = sampleCylinder({ n: 300, radiusM: 0.03, lengthM: 0.2, arcRad: Math.PI, noiseM: 0, outlierFraction: 0.3, axis: TILTED, seed: 15 });
+    const w = Float64Array.from(s.outlier, (o) => (o ? 0 : 1));
+    const f = fitCylinder(s.x, s.y, s.z, s.indices, { weights: w, robust: 'none' })!;
+    expect(Math.abs(f.radiusM - 0.03)).toBeLessThan(1e-9);
+    expect(f.pointCount).toBe(300 - s.outlier.reduce((a, b) => a + b, 0));
+    expect(fitCylinder(s.x, s.y, s.z, s.indices, { weights: new Float64Array(300) })).toBeNull();
+    w.fill(NaN);
+    expect(fitCylinder(s.x, s.y, s.z, s.indices, { weights: w })).toBeNull();
+  });
+
   it('returns identical results for identical input', () => {
     // Repeatability rule of the project: no hidden randomness.
     const a = fit({ n: 200, radiusM: 0.05, lengthM: 0.3, arcRad: 4, noiseM: 0.001, outlierFraction: 0.1, seed: 12 });
@@ -185,5 +227,30 @@ describe('fitCylinder', () => {
       }
       expect(f.radiusM).toBeGreaterThan(0.1);
     }
+  });
+});
+
+describe('cholSolve5', () => {
+  it('solves M x = b for seeded random symmetric positive definite 5×5 matrices to 1e-10', () => {
+    // M = Gᵀ G + I is symmetric positive definite; check the residual M x − b (Golub & Van Loan §4.2).
+    const rnd = createRandom(19);
+    for (let t = 0; t < 100; t++) {
+      const G = Array.from({ length: 5 }, () => Array.from({ length: 5 }, () => rnd.normal()));
+      const M = Array.from({ length: 5 }, (_, i) => Array.from({ length: 5 }, (_, j) => G.reduce((s, row) => s + row[i] * row[j], 0) + (i === j ? 1 : 0)));
+      const b = Array.from({ length: 5 }, () => rnd.normal());
+      const m = Float64Array.from(M.flat());
+      const x = Float64Array.from(b);
+      expect(cholSolve5(m, x)).toBe(true);
+      for (let i = 0; i < 5; i++) {
+        const r = M[i].reduce((s, v, j) => s + v * x[j], 0) - b[i];
+        expect(Math.abs(r)).toBeLessThan(1e-10);
+      }
+    }
+  });
+
+  it('reports a matrix that is not positive definite', () => {
+    const m = new Float64Array(25);
+    m[0] = -1;
+    expect(cholSolve5(m, new Float64Array(5))).toBe(false);
   });
 });

@@ -193,6 +193,46 @@ describe('correctRadii', () => {
     expect(twice.map((s) => s.radiusM)).toEqual(once.map((s) => s.radiusM));
   });
 
+  it('derives branches itself when branch ids are not assigned yet', () => {
+    // Same analytic taper; every segment says branch 0, so branches must come from the tree shape
+    // (main continuation = child with the longest path to a tip).
+    const { segments, truth } = taperedNetwork();
+    for (let i = 0; i < segments.length; i++) segments[i] = { ...segments[i], branchId: 0 };
+    segments[12] = { ...segments[12], radiusM: truth[12] * 2.5, reliable: false, reliabilityReason: 'thin_arc' };
+    const out = run(segments).segments;
+    expect(out[12].radiusCorrection).toBe('taper_model');
+    expect(Math.abs(out[12].radiusM / truth[12] - 1)).toBeLessThan(0.01);
+  });
+
+  it('keeps a correction code set upstream when no rule here applies', () => {
+    // radiusCorrection must say where every radius came from (issue 4, item 4).
+    const { segments } = taperedNetwork();
+    segments[3] = { ...segments[3], radiusCorrection: 'cluster_spread' };
+    const out = run(segments).segments;
+    expect(out[3].radiusCorrection).toBe('cluster_spread');
+    expect(run(segments, { mode: 'none' }).segments[3].radiusCorrection).toBe('cluster_spread');
+  });
+
+  it('copes with a one-segment network and a NaN radius without producing NaN', () => {
+    // Robustness rule of the project: bad numbers never turn into NaN output.
+    const { segments } = taperedNetwork();
+    const one = run([segments[0]], { rangeNoiseM: 0.002 }).segments;
+    expect(one[0].radiusM).toBeGreaterThan(0);
+    segments[3] = { ...segments[3], radiusM: NaN, reliable: false, reliabilityReason: 'few_points' };
+    const out = run(segments, { rangeNoiseM: 0.002 }).segments;
+    expect(Number.isFinite(out[3].radiusM)).toBe(true);
+    expect(out[3].radiusCorrection).toBe('taper_model');
+    expect(out[3].radiusFitM).toBe(0);
+    // applied again, the missing fit stays missing and the model value is not taken for a fit
+    const again = run(out, { rangeNoiseM: 0.002 }).segments;
+    expect(again[3].radiusFitM).toBe(0);
+    expect(again[3].radiusM).toBeCloseTo(out[3].radiusM, 12);
+    for (const s of out) {
+      expect(Number.isNaN(s.radiusM)).toBe(false);
+      expect(Number.isNaN(s.radiusFitM)).toBe(false);
+    }
+  });
+
   it('throws when the tree does not match the segments', () => {
     const { segments } = taperedNetwork();
     expect(() => correctRadii(segments.slice(0, 5), SegmentTree.fromNetwork(segments))).toThrow(/segments/);

@@ -25,7 +25,7 @@ describe('assessReliability', () => {
     expect(assessReliability({ ...GOOD, inlierCount: 8, pointCount: 10 }, rule).reason).toBe('few_points');
     expect(assessReliability({ ...GOOD, converged: false }, rule).reason).toBe('not_converged');
     expect(assessReliability({ ...GOOD, arcCoverage: 4 / 16 }, rule).reason).toBe('thin_arc');
-    expect(assessReliability({ ...GOOD, radiusM: 0.009, radiusSeM: 0.0005, rmseM: 0.002 }, rule).reason).toBe('below_noise');
+    expect(assessReliability({ ...GOOD, radiusM: 0.0035, radiusSeM: 0.0005, rmseM: 0.001 }, rule).reason).toBe('below_noise');
     expect(assessReliability({ ...GOOD, rmseM: 0.02 }, rule).reason).toBe('poor_fit');
     expect(assessReliability({ ...GOOD, radiusSeM: 0.02 }, rule).reason).toBe('poor_fit');
     expect(assessReliability({ ...GOOD, inlierCount: 90 }, rule).reason).toBe('poor_fit');
@@ -41,7 +41,7 @@ describe('assessReliability', () => {
   it('does not call an RMSE poor_fit when the range noise explains it', () => {
     // rmse 0.3r but below 2σ of range noise: scatter is noise, not a wrong shape
     const f = { ...GOOD, radiusM: 0.02, radiusSeM: 0.0005, rmseM: 0.007 };
-    expect(assessReliability(f, { rangeNoiseM: 0.004, belowNoiseFactor: 4 }).reliable).toBe(true);
+    expect(assessReliability(f, { rangeNoiseM: 0.004 }).reliable).toBe(true);
     expect(assessReliability(f, { rangeNoiseM: 0.001 }).reason).toBe('poor_fit');
   });
 
@@ -52,7 +52,7 @@ describe('assessReliability', () => {
     expect(assessReliability({ ...GOOD, arcCoverage: NaN }).reliable).toBe(false);
   });
 
-  it('flags real fits: a 60° arc is thin_arc, a 4 mm twig with 2 mm noise is below_noise, a full arc is reliable', () => {
+  it('flags real fits: a 60° arc is thin_arc, a 3 mm twig with 2 mm noise is below_noise, a full arc is reliable', () => {
     const noise = 0.002;
     const fitOf = (radiusM: number, arcRad: number, noiseM: number) => {
       const s = sampleCylinder({ n: 200, radiusM, lengthM: 0.2, arcRad, noiseM, seed: 4 });
@@ -60,7 +60,7 @@ describe('assessReliability', () => {
     };
     expect(assessReliability(fitOf(0.05, 2 * Math.PI, noise), { rangeNoiseM: noise }).reliable).toBe(true);
     expect(assessReliability(fitOf(0.05, Math.PI / 3, noise), { rangeNoiseM: noise }).reasons).toContain('thin_arc');
-    expect(assessReliability(fitOf(0.004, 2 * Math.PI, noise), { rangeNoiseM: noise }).reasons).toContain('below_noise');
+    expect(assessReliability(fitOf(0.003, 2 * Math.PI, noise), { rangeNoiseM: noise }).reasons).toContain('below_noise');
     // the default needs 5 of 16 sectors: a 60° arc can never reach it
     expect(DEFAULT_RELIABILITY_RULE.minArcCoverage).toBeGreaterThan(4 / 16);
   });

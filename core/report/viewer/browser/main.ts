@@ -1,14 +1,14 @@
-/// <reference lib="dom" />
 /**
  * Browser entry of the report's 3D view (bundled with three.js by scripts/build-viewer.mjs and
  * inlined into report.html). Reads the embedded payload, draws the network with WebGL or, when
  * WebGL is unavailable, with a 2D-canvas projection, and wires the colour menu, legend and mouse.
  */
-import { categoryColour, cssColour, layerColours, MISSING, rampColour, RAMP } from './colour.js';
+import { categoryColour, cssColour, layerColours, MISSING, rampColour, RAMP } from '../colour.js';
 import { FlatView } from './flat-view.js';
-import { frameBox, pan, rotate, zoom, type Orbit, type V3 } from './orbit.js';
-import { PAYLOAD_ELEMENT_ID, type ViewerLayer, type ViewerPayload } from './payload.js';
-import type { NetworkView, ViewGeometry } from './view.js';
+import { frameBox, pan, rotate, zoom, type Orbit, type V3 } from '../orbit.js';
+import { PAYLOAD_ELEMENT_ID, type ViewerLayer, type ViewerPayload } from '../payload.js';
+import { pickSegment } from '../pick.js';
+import type { NetworkView, ViewGeometry } from '../view.js';
 import { WebGlView, webGl2Available } from './webgl-view.js';
 
 interface ViewerState {
@@ -18,7 +18,13 @@ interface ViewerState {
   renders: number;
   /** ms from navigation start to the first drawn frame. */
   firstFrameMs: number;
+  /** ms from navigation start at each boot step (for load-time measurements). */
+  marks: Record<string, number>;
+  /** Index of the segment last clicked, −1 for none. */
+  picked: number;
   setColourBy(key: string): void;
+  /** Pick the segment at canvas pixel (x, y) as a click does; returns its index or −1. */
+  pickAt(x: number, y: number): number;
 }
 
 declare global {
@@ -64,6 +70,7 @@ function legendHtml(layer: ViewerLayer, range: [number, number] | null, values: 
 }
 
 function boot(): void {
+  const marks: Record<string, number> = { boot: performance.now() };
   const el = document.getElementById(PAYLOAD_ELEMENT_ID);
   const canvas = document.getElementById('viewer-canvas') as HTMLCanvasElement | null;
   if (!el || !canvas) return;
@@ -83,6 +90,7 @@ function boot(): void {
       if (p[i] > max[k]) max[k] = p[i];
     }
   }
+  marks.decoded = performance.now();
   const home = frameBox(min, max);
   let orbit: Orbit = home;
 
@@ -94,6 +102,7 @@ function boot(): void {
   } catch {
     view = new FlatView(canvas, geometry, BACKGROUND);
   }
+  marks.view = performance.now();
   const modeEl = document.getElementById('viewer-mode');
   if (modeEl) modeEl.textContent = view.mode === 'webgl' ? 'WebGL view' : 'WebGL unavailable: 2D projection';
 
@@ -110,6 +119,15 @@ function boot(): void {
     colourBy: '',
     renders: 0,
     firstFrameMs: NaN,
+    marks,
+    picked: -1,
+    pickAt(x: number, y: number): number {
+      const rect = canvas!.getBoundingClientRect();
+      const i = pickSegment(geometry, orbit, rect.width, rect.height, x, y);
+      state.picked = i;
+      showReadout(i);
+      return i;
+    },
     setColourBy(key: string) {
       const layer = layers.get(key);
       if (!layer || !layer.values) return;
@@ -120,9 +138,31 @@ function boot(): void {
       if (legend) legend.innerHTML = legendHtml(layer, range, values);
       if (select && select.value !== key) select.value = key;
       state.colourBy = key;
+      showReadout(state.picked);
       draw();
     },
   };
+
+  const segmentIds = decode(payload.segmentIds);
+  const reasonIndex = decode(payload.reasonIndex);
+  const readout = document.getElementById('viewer-readout');
+  function showReadout(i: number): void {
+    if (!readout) return;
+    if (i < 0) {
+      readout.textContent = 'click a segment for its values';
+      return;
+    }
+    const parts = [`segment ${segmentIds[i]}`, `radius ${fmt(geometry.radius[i])} m`];
+    const layer = layers.get(state.colourBy);
+    const values = decoded.get(state.colourBy);
+    if (layer && values && layer.key !== 'radius') {
+      const v = values[i];
+      const text = layer.kind === 'categorical' ? (layer.categories?.[v] ?? String(v)) : Number.isFinite(v) ? `${fmt(v)}${layer.unit ? ` ${layer.unit}` : ''}` : 'no value';
+      parts.push(`${layer.label}: ${text}`);
+    }
+    parts.push(reasonIndex[i] >= 0 ? `flagged: ${payload.reasons[reasonIndex[i]]}` : 'reliable');
+    readout.textContent = parts.join(' · ');
+  }
   window.__xylemap = state;
 
   function frame(): void {
@@ -164,10 +204,22 @@ function boot(): void {
     orbit = drag.panning ? pan(orbit, dx, dy, canvas.getBoundingClientRect().height) : rotate(orbit, dx, dy);
     draw();
   });
+  let downAt: { x: number; y: number } | null = null;
+  canvas.addEventListener('pointerdown', (e) => {
+    downAt = { x: e.clientX, y: e.clientY };
+  });
   const stop = (): void => {
     drag = null;
   };
-  canvas.addEventListener('pointerup', stop);
+  canvas.addEventListener('pointerup', (e) => {
+    // A click (pointer moved < 4 px) picks; a drag only moves the camera.
+    if (downAt && Math.hypot(e.clientX - downAt.x, e.clientY - downAt.y) < 4) {
+      const rect = canvas.getBoundingClientRect();
+      state.pickAt(e.clientX - rect.left, e.clientY - rect.top);
+    }
+    downAt = null;
+    stop();
+  });
   canvas.addEventListener('pointercancel', stop);
   canvas.addEventListener(
     'wheel',

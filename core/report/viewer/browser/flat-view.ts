@@ -1,6 +1,5 @@
-/// <reference lib="dom" />
-import { basisOf, eyeOf, type Orbit } from './orbit.js';
-import type { NetworkView, ViewGeometry } from './view.js';
+import { basisOf, eyeOf, type Orbit } from '../orbit.js';
+import type { NetworkView, ViewGeometry } from '../view.js';
 
 /**
  * Fallback when WebGL is unavailable: a perspective projection onto a 2D canvas, segments drawn
