@@ -247,7 +247,9 @@ export async function main(): Promise<void> {
     rows.push({ file: label, method: 'numpy frombuffer + scale/offset, 7 fields only', points: POINTS, ...numpySeconds(path, pf, 'few') });
     rows.push({ file: label, method: 'minimal DataView loop, 7 fields (decode only)', points: POINTS, ...(await best(() => minimalDataView(bytes, pf))) });
     rows.push({ file: label, method: 'xylemap decoder, all fields (decode only, 1 thread)', points: POINTS, ...(await best(() => xylemapDecode(bytes))) });
-    rows.push({ file: label, method: `xylemap readCloud (file → PointCloud, ${decodeThreads(POINTS)} thread(s))`, points: POINTS, ...(await best(() => readCloud(path))) });
+    rows.push({ file: label, method: 'xylemap readCloud (file → PointCloud), 1 thread', points: POINTS, ...(await best(() => readCloud(path, { threads: 1 }))) });
+    const threads = decodeThreads(POINTS, availableParallelism());
+    if (threads > 1) rows.push({ file: label, method: `xylemap readCloud (file → PointCloud), ${threads} threads (opt-in)`, points: POINTS, ...(await best(() => readCloud(path, { threads }))) });
     const child = spawnSync(process.execPath, [self, '--read-child', path], { encoding: 'utf8', maxBuffer: 1 << 20 });
     if (child.status === 0) {
       const m = JSON.parse(child.stdout) as { before: number; peak: number; arrays: number };
@@ -273,17 +275,21 @@ export async function main(): Promise<void> {
     );
   }
   process.stdout.write('\nratios (same run):\n');
-  for (let k = 0; k + 4 < 10 && rows[k]; k += 5) {
-    const [np, few, dv, dec, full] = rows.slice(k, k + 5);
-    const x = (a: number, b: number) => `${(a / b).toFixed(2)}×`;
-    process.stdout.write(
-      `  ${np.file}: speed relative to numpy with the same fields — wall: decode ${x(np.seconds, dec.seconds)}, readCloud ${x(np.seconds, full.seconds)}; ` +
-        `cpu: decode ${x(np.cpu, dec.cpu)}, readCloud ${x(np.cpu, full.cpu)}\n` +
-        `  ${' '.repeat(np.file.length)}  relative to numpy with 7 fields — wall: readCloud ${x(few.seconds, full.seconds)}; relative to the minimal DataView loop — wall: decode ${x(dv.seconds, dec.seconds)}\n`,
-    );
-  }
-  for (let k = 10; k + 1 < rows.length; k += 2) {
-    process.stdout.write(`  ${rows[k].file}: readCloud speed relative to laz-perf alone — wall ${(rows[k].seconds / rows[k + 1].seconds).toFixed(2)}×, cpu ${(rows[k].cpu / rows[k + 1].cpu).toFixed(2)}×\n`);
+  const x = (a: number, b: number) => `${(a / b).toFixed(2)}×`;
+  for (const file of [...new Set(rows.map((r) => r.file))]) {
+    const of = (prefix: string) => rows.filter((r) => r.file === file && r.method.startsWith(prefix));
+    const [np] = of('numpy frombuffer + scale/offset, same');
+    const [few] = of('numpy frombuffer + scale/offset, 7');
+    const [dv] = of('minimal DataView');
+    const [dec] = of('xylemap decoder');
+    const reads = of('xylemap readCloud');
+    const [lazperf] = of('laz-perf alone');
+    if (np && dec) {
+      const readText = reads.map((r) => `${r.method.replace(/.*\), /, '')}: wall ${x(np.seconds, r.seconds)}, cpu ${x(np.cpu, r.cpu)}`).join('; ');
+      process.stdout.write(`  ${file}: speed relative to numpy with the same fields — decode: wall ${x(np.seconds, dec.seconds)}, cpu ${x(np.cpu, dec.cpu)}; readCloud ${readText}\n`);
+      if (few && dv) process.stdout.write(`  ${' '.repeat(file.length)}  (numpy with 7 fields is ${x(np.seconds, few.seconds)} faster than with all; xylemap decode vs the minimal 7-field DataView loop: wall ${x(dv.seconds, dec.seconds)})\n`);
+    }
+    if (lazperf && reads[0]) process.stdout.write(`  ${file}: readCloud speed relative to laz-perf alone — wall ${x(lazperf.seconds, reads[0].seconds)}, cpu ${x(lazperf.cpu, reads[0].cpu)}\n`);
   }
   process.stdout.write(`\nmemory (separate process per file):\n${memory.map((m) => `  ${m}`).join('\n')}\n`);
   if (!process.env.XYLEMAP_BENCH_KEEP) {

@@ -1,6 +1,7 @@
 /**
  * Scan-lab benchmark (`node dist/bench/simulate.js`, also part of `npm run bench`): time of a
- * ~3-million-point virtual scan of a 15 m tree (target ≤ 30 s), and a small scan-design table
+ * ~3-million-point virtual scan of a 15 m tree (target ≤ 30 s) in one thread and with the
+ * positions on 2 worker threads (checking both give the same points), and a small scan-design table
  * (positions × distance × angular step → points and coverage by radius class). Prints figures;
  * asserts nothing. XYLEMAP_BENCH_SIM_POINTS changes the point target; XYLEMAP_BENCH_SIM_DESIGN=0
  * skips the design table.

@@ -22,6 +22,14 @@ cleanup() {
   # Stop only the daemons start-slurm.sh started for this test (by pid, newest first), never by name.
   if [ -s "$XYLEMAP_SLURM_STATE/started.pids" ]; then
     tac "$XYLEMAP_SLURM_STATE/started.pids" | while read -r pid; do kill "$pid" 2>/dev/null || true; done
+    # Give them up to 10 s to write their state and exit.
+    for i in $(seq 1 50); do
+      alive=0
+      while read -r pid; do kill -0 "$pid" 2>/dev/null && [ "$(ps -o stat= -p "$pid" | cut -c1)" != Z ] && alive=1; done < "$XYLEMAP_SLURM_STATE/started.pids"
+      [ "$alive" = 0 ] && break
+      sleep 0.2
+    done
+    : > "$XYLEMAP_SLURM_STATE/started.pids"
   fi
 }
 trap cleanup EXIT
@@ -52,14 +60,29 @@ $XY batch "$MANIFEST" --out "$WORK/local" --workers 2 --inventory "$INVENTORY" >
 
 say "emit and submit a 4-task array"
 $XY batch "$MANIFEST" --out "$WORK/array" --emit-slurm --shard-count 4 --workers 1 --job-mem 2G --job-time 00:20:00 >/dev/null
-jobid=$(sbatch --parsable --wait "$WORK/array/xylemap-batch.sbatch") || {
-  say "array job failed; task logs:"
+# Bounded wait: a job that never starts (node down or drained) must not hang CI.
+jobid=$(sbatch --parsable "$WORK/array/xylemap-batch.sbatch")
+deadline=$(( $(date +%s) + ${XYLEMAP_SLURM_TIMEOUT_S:-900} ))
+while squeue -h -j "$jobid" 2>/dev/null | grep -q .; do
+  if [ "$(date +%s)" -gt "$deadline" ]; then
+    say "array job $jobid not finished after ${XYLEMAP_SLURM_TIMEOUT_S:-900} s:"
+    squeue -j "$jobid" || true
+    sinfo -N -l || true
+    scancel "$jobid" || true
+    exit 1
+  fi
+  sleep 2
+done
+if ! states=$(scontrol show job "$jobid" 2>/dev/null | grep -o 'JobState=[A-Z_]*' | sort -u | tr '\n' ' '); then states=''; fi
+if [ -n "$states" ] && [ "$states" != "JobState=COMPLETED " ]; then
+  say "array job $jobid ended with $states; task logs:"
   tail -n 20 "$WORK"/array/logs/* 2>/dev/null || true
   exit 1
-}
-say "array job $jobid finished"
-sacct_state=$(scontrol show job "$jobid" 2>/dev/null | grep -o 'JobState=[A-Z]*' | sort -u | tr '\n' ' ' || true)
-[ -n "$sacct_state" ] && say "states: $sacct_state"
+fi
+say "array job $jobid finished ${states:-(job record already purged)}"
+for i in 0 1 2 3; do
+  [ -f "$WORK/array/shard-$i/batch.json" ] || { say "shard $i wrote no batch.json; task logs:"; tail -n 20 "$WORK"/array/logs/* 2>/dev/null || true; exit 1; }
+done
 
 say "merge the shard folders"
 $XY merge "$WORK"/array/shard-* --out "$WORK/array/merged" --inventory "$INVENTORY" >/dev/null
@@ -84,6 +107,6 @@ trees=$(($(wc -l < "$WORK/local/stand.csv") - 1))
 say "$trees trees, $(ls -d "$WORK"/array/shard-* | wc -l) shard folders, $(( $(date +%s) - T0 )) s in all"
 cleanup
 trap - EXIT
-if [ "$status" = 0 ]; then rm -rf "$WORK"; else say "FAIL (kept $WORK)"; fi
+if [ "$status" = 0 ]; then rm -rf "$WORK" 2>/dev/null || true; else say "FAIL (kept $WORK)"; fi
 echo "slurm-test: $same passed, $differ failed"
 exit $status

@@ -15,6 +15,7 @@ import { XylemapError } from '../../core/util/errors.js';
 interface BatchFlags {
   out: string;
   workers?: string;
+  treeTimeoutS?: string;
   config?: string;
   inventory?: string;
   shard?: string;
@@ -120,6 +121,7 @@ export function register(program: Command): void {
     .argument('<manifest>', 'CSV with columns tree_id, species, file (+ optional field_dbh_m, plot, preset, notes); files relative to the manifest')
     .requiredOption('--out <dir>', 'output folder: trees/<tree_id>/ per tree, stand.csv, species.csv, species.json, stand.json, failures.csv, batch.json')
     .option('--workers <n>', `trees processed at once (worker threads; default: the CPUs, here ${availableParallelism()})`)
+    .option('--tree-timeout-s <s>', 'stop a tree that runs longer than this and record it as failed (default: no limit)')
     .option('--config <file>', 'YAML configuration for every tree (its batch: block sets the statistics); checked before any tree')
     .option('--inventory <file>', 'CSV plot_id, plot_area_m2, species, dbh_m (one row per stem) to upscale conductance per ground area')
     .option('--shard <i/n>', 'run only shard i of n (0-based; tree goes to shard FNV-1a(tree_id) mod n); default from SLURM_ARRAY_TASK_ID or JOB_COMPLETION_INDEX')
@@ -154,7 +156,8 @@ export function register(program: Command): void {
       // Validate everything before starting threads (runBatchFolder checks again; it is cheap).
       batchConfig(rawConfig, flags.config);
       const progress = progressLine(Boolean(flags.json));
-      const pool = createTreePool(workers);
+      const timeout = positiveInt(flags.treeTimeoutS, '--tree-timeout-s') ?? 0;
+      const pool = createTreePool(workers, timeout);
       let result;
       try {
         result = await runBatchFolder({

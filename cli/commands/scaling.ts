@@ -150,11 +150,15 @@ function textReport(s: ScalingSummary, written: string[]): string {
     .filter(([, n]) => n > 0)
     .map(([r, n]) => `${r} ${n}`)
     .join(', ');
+  const censored = Object.entries(e.censored_by_reason)
+    .filter(([, n]) => n > 0)
+    .map(([r, n]) => `${r} ${n}`)
+    .join(', ');
   const lines = [
     `area-preservation exponent a (Σ r_child^a = r_parent^a)`,
     `  estimate (median)   ${num(e.estimate)}  ${pct} % interval ${ci(e.ci95)}   Huber ${num(e.huber)}`,
     `  pooled (LS)         ${num(s.pooled.estimate)}  ${pct} % interval ${ci(s.pooled.ci95)}`,
-    `  furcations          ${e.n_used} used of ${e.n_furcations}; excluded ${e.n_excluded}${reasons ? ` (${reasons})` : ''}`,
+    `  furcations          ${e.n_used} used of ${e.n_furcations} (${e.n_solved} solved, ${e.n_used - e.n_solved} censored${censored ? `: ${censored}` : ''}); excluded ${e.n_excluded}${reasons ? ` (${reasons})` : ''}`,
     `  spread              observed SD ${num(e.observed_sd)}, from radius errors ${num(e.measurement_sd)}`,
     '',
     'theory',

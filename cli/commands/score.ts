@@ -20,11 +20,10 @@ export function register(program: Command): void {
     .argument('<truth>', 'folder written by `xylemap simulate` (segments.csv, truth.json), or a segments.csv')
     .summary('scan lab: score a reconstruction against the truth of a virtual scan')
     .description(
-      `Match reconstructed segments to true ones by axis proximity and direction, and report DBH,
-height, wood volume, radius errors (median, RMSE, relative) and recovered length per radius
-class (<1, 1–2.5, 2.5–5, 5–10, >10 cm), furcations found, branching-order agreement and — when
-the summaries have them — exponent and conductance errors.
-Precedence: defaults < --config (its "score" mapping) < flags.`,
+      [
+        'Match reconstructed segments to true ones by axis proximity and direction, and report DBH, height, wood volume, radius errors (median, RMSE, relative) and recovered length per radius class (<1, 1–2.5, 2.5–5, 5–10, >10 cm), furcations found, branching-order agreement and — when the summaries have them — exponent and conductance errors.',
+        'Precedence: defaults < --config (its "score" mapping) < flags.',
+      ].join('\n\n'),
     )
     .option('--config <file>', 'YAML configuration; its "score" mapping sets the options below')
     .option('--json', 'print one JSON object to stdout instead of a table');
@@ -87,7 +86,7 @@ function textReport(r: ScoreResult): string {
     `  length        true ${num(r.length.true_m, 1)} m, reconstructed ${num(r.length.reconstructed_m, 1)} m, true length recovered ${pct(r.length.recovered_fraction)}`,
     `  radius        median error ${signedPct(r.radius.median_relative_error)}, RMSE ${pct(r.radius.rmse_relative_error)} (${r.radius.samples} samples)`,
     `  furcations    ${r.furcations.found} of ${r.furcations.true} true found (${pct(r.furcations.found_fraction)}); ${r.furcations.reconstructed} reconstructed`,
-    `  branch order  agreement ${pct(r.branch_order_agreement)}`,
+    `  branch order  agreement ${pct(r.branch_order_agreement)}, within ±1 ${pct(r.branch_order_within_one)}`,
     `  exponent      ${r.exponent ? `true ${num(r.exponent.true)}, reconstructed ${num(r.exponent.reconstructed)}, error ${num(r.exponent.error)}` : 'n/a (needs scaling.exponent.estimate in the reconstruction summary.json)'}`,
     `  conductance   ${r.conductance ? `true ${num(r.conductance.true_kg_s_mpa, 5)}, reconstructed ${num(r.conductance.reconstructed_kg_s_mpa, 5)} kg s⁻¹ MPa⁻¹ (${signedPct(r.conductance.relative_error)})` : 'n/a (needs hydraulics.tree_conductance_kg_s_mpa in both summary.json)'}`,
     '',

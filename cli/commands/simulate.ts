@@ -21,15 +21,14 @@ export function register(program: Command): void {
     .command('simulate')
     .summary('scan lab: generate a tree with known architecture and scan it virtually')
     .description(
-      `Generate a tree (exact area-preservation exponent at every furcation) and scan it with a
-simulated terrestrial scanner (occlusion, range noise, beam divergence with mixed pixels,
-ground, clutter, registration error, optional leaves).
-Writes <out>/scan.las (LAS 1.4, point format 6, extra bytes segment_id and label:
-0 wood, 1 ground, 2 clutter, 3 mixed pixel, 4 leaf), <out>/segments.csv and <out>/truth.json.
-Presets: ${Object.entries(PRESETS)
-        .map(([k, p]) => `${k} (${p.summary})`)
-        .join('; ')}.
-Precedence: defaults < --preset < --config (its "simulate" mapping) < flags.`,
+      [
+        'Generate a tree (exact area-preservation exponent at every furcation) and scan it with a simulated terrestrial scanner (occlusion, range noise, beam divergence with mixed pixels, ground, clutter, registration error, optional leaves).',
+        'Writes <out>/scan.las (LAS 1.4, point format 6, extra bytes segment_id and label: 0 wood, 1 ground, 2 clutter, 3 mixed pixel, 4 leaf), <out>/segments.csv and <out>/truth.json.',
+        `Presets: ${Object.entries(PRESETS)
+          .map(([k, p]) => `${k} (${p.summary})`)
+          .join('; ')}.`,
+        'Precedence: defaults < --preset < --config (its "simulate" mapping) < flags.',
+      ].join('\n\n'),
     )
     .requiredOption('--out <dir>', 'folder for segments.csv, truth.json and (by default) scan.las')
     .option('--preset <name>', `starting parameters: ${Object.keys(PRESETS).join(', ')}`)

@@ -23,15 +23,26 @@ export function workerFile(): string {
 
 /**
  * Start a pool of `workers` threads.
+ * @param treeTimeoutS stop a tree (its worker thread is terminated and replaced) after this many
+ *   seconds and record it as failed; 0 = no limit
  * @throws Error when the compiled worker is missing (run `npm run build`)
  */
-export function createTreePool(workers: number): TreePool {
+export function createTreePool(workers: number, treeTimeoutS = 0): TreePool {
   const filename = workerFile();
   if (!existsSync(filename)) throw new Error(`batch worker not built: ${filename} is missing — run \`npm run build\``);
   const n = Math.max(1, Math.floor(workers));
   const pool = new Piscina<WorkerTask, TreeOutcome>({ filename, minThreads: n, maxThreads: n, idleTimeout: 60_000 });
   return {
-    processTree: (job) => pool.run({ kind: 'tree', path: job.path, outDir: job.outDir, config: job.config }),
+    processTree: async (job) => {
+      const task: WorkerTask = { kind: 'tree', path: job.path, outDir: job.outDir, config: job.config };
+      if (!(treeTimeoutS > 0)) return pool.run(task);
+      try {
+        return await pool.run(task, { signal: AbortSignal.timeout(treeTimeoutS * 1000) });
+      } catch (e) {
+        if ((e as Error)?.name === 'AbortError') return { ok: false, error: `${job.path}: stopped after the tree time limit of ${treeTimeoutS} s` };
+        throw e;
+      }
+    },
     noop: () => pool.run({ kind: 'noop' }),
     close: () => pool.destroy(),
   };

@@ -12,8 +12,7 @@
  * replicate's fit (the plot's actual stems are not the fit's mean stems); with `fit` only the fit
  * varies, an interval for the expected total.
  */
-import { parseCsv } from '../io/csv.js';
-import { formatCsv } from '../io/csv.js';
+import { formatCsv, parseCsv } from '../io/csv.js';
 import { createRandom } from '../util/random.js';
 import { XylemapError } from '../util/errors.js';
 import { fitPowerLaw, predictConductance, type PowerLawFit } from './power-law.js';

@@ -6,7 +6,7 @@ import { defineOptions, type OptionValues } from '../options/declare.js';
  * YAML `clean:` block are built from this.
  */
 export const cleanOptions = defineOptions('clean', 'Thin the cloud, remove outliers and ground, find the stem base and keep the tree connected to it.', {
-  voxel_size_m: { type: 'number', default: 0.01, unit: 'm', min: 0.002, max: 0.5, help: 'edge of the thinning voxels; the graph is built on one point per voxel (the centroid)' },
+  voxel_size_m: { type: 'number', default: 0.015, unit: 'm', min: 0.002, max: 0.5, help: 'edge of the thinning voxels; the graph is built on one point per voxel (the centroid)' },
   outlier_neighbours: { type: 'number', default: 8, unit: '1', min: 2, max: 64, integer: true, help: 'neighbours used by the statistical outlier filter' },
   outlier_std_ratio: { type: 'number', default: 3, unit: '1', min: 0.5, max: 20, help: 'a voxel whose mean neighbour distance exceeds mean + ratio × std is an outlier' },
   remove_ground: { type: 'boolean', default: true, help: 'remove points near the estimated ground surface' },

@@ -132,10 +132,6 @@ export function decodeRecords(bytes: Uint8Array, byteOffset: number, n: number, 
   if (pf < 6) decodeLegacyCore(v, rl, end, cloud, start, layout);
   else decodeExtendedCore(v, rl, end, cloud, start, layout);
   const g = groupOffsets(pf);
-  if (hasGpsTime(pf)) {
-    const t = a.gpsTime as Float64Array;
-    for (let p = g.gps, i = start; p < end; p += rl, i++) t[i] = v.getFloat64(p, true);
-  }
   if (hasRgb(pf)) {
     copyU16(v, g.rgb, rl, end, a.red as Uint16Array, start);
     copyU16(v, g.rgb + 2, rl, end, a.green as Uint16Array, start);
@@ -177,6 +173,9 @@ function decodeLegacyCore(v: DataView, rl: number, end: number, cloud: PointClou
   const angle = a.scanAngleDeg as Float32Array;
   const user = a.userData as Uint8Array;
   const psid = a.pointSourceId as Uint16Array;
+  // GPS time (pf 1, 3, 4, 5 at byte 20) rides in the same pass (the branch is loop-invariant).
+  const hasTime = hasGpsTime(layout.pointFormat);
+  const gps = hasTime ? (a.gpsTime as Float64Array) : new Float64Array(0);
   for (let p = 0, i = start; p < end; p += rl, i++) {
     const X = v.getInt32(p, true);
     const Y = v.getInt32(p + 4, true);
@@ -185,6 +184,7 @@ function decodeLegacyCore(v: DataView, rl: number, end: number, cloud: PointClou
     y[i] = ey ? (Y + ky) / dy : Y * dy + ky;
     z[i] = ez ? (Z + kz) / dz : Z * dz + kz;
     intensity[i] = v.getUint16(p + 12, true);
+    if (hasTime) gps[i] = v.getFloat64(p + 20, true);
     const b = v.getUint8(p + 14);
     ret[i] = b & 7;
     nret[i] = (b >> 3) & 7;
@@ -219,6 +219,7 @@ function decodeExtendedCore(v: DataView, rl: number, end: number, cloud: PointCl
   const angle = a.scanAngleDeg as Float32Array;
   const user = a.userData as Uint8Array;
   const psid = a.pointSourceId as Uint16Array;
+  const gps = a.gpsTime as Float64Array; // every format 6–10 has GPS time at byte 22
   for (let p = 0, i = start; p < end; p += rl, i++) {
     const X = v.getInt32(p, true);
     const Y = v.getInt32(p + 4, true);
@@ -227,6 +228,7 @@ function decodeExtendedCore(v: DataView, rl: number, end: number, cloud: PointCl
     y[i] = ey ? (Y + ky) / dy : Y * dy + ky;
     z[i] = ez ? (Z + kz) / dz : Z * dz + kz;
     intensity[i] = v.getUint16(p + 12, true);
+    gps[i] = v.getFloat64(p + 22, true);
     const b = v.getUint8(p + 14);
     ret[i] = b & 15;
     nret[i] = b >> 4;

@@ -23,7 +23,7 @@ function readAt(fd: number, position: number, length: number): Uint8Array {
 }
 
 export interface LasReadOptions {
-  /** Decode threads for large uncompressed files (default: XYLEMAP_IO_THREADS, else min(cores, 4)). */
+  /** Decode threads for large uncompressed files (default: XYLEMAP_IO_THREADS, else 1). */
   threads?: number;
 }
 

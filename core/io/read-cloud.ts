@@ -10,7 +10,7 @@ export interface ReadOptions {
   columns?: string;
   /** Accept a file with zero points (default false: an empty cloud is an error). `inspect` sets it. */
   allowEmpty?: boolean;
-  /** Decode threads for large uncompressed LAS (default: env XYLEMAP_IO_THREADS, else min(cores, 4)). */
+  /** Decode threads for large uncompressed LAS (default: env XYLEMAP_IO_THREADS, else 1; workers need the compiled build). */
   threads?: number;
 }
 

@@ -31,6 +31,15 @@ export const SEGMENT_COLUMNS = [
   'radius_correction',
 ] as const;
 
+/** An unknown uncertainty is written as Inf (formatNumber) and must read back as such. */
+const NON_FINITE_ALLOWED = new Set(['radius_se_m']);
+
+function parseNumber(raw: string): number {
+  if (raw === 'Inf') return Infinity;
+  if (raw === '-Inf') return -Infinity;
+  return Number(raw);
+}
+
 /** Columns a file must have; the rest default (se 0, coverage 1, reliable true …). */
 const REQUIRED = ['segment_id', 'parent_id', 'start_x', 'start_y', 'start_z', 'end_x', 'end_y', 'end_z', 'radius_m'];
 
@@ -83,8 +92,8 @@ export function parseSegmentsCsv(text: string, file = 'segments.csv'): Network {
         if (fallback !== undefined) return fallback;
         throw new XylemapError(`line ${line}: empty ${name}`, { file, hint: 'fill in every required column' });
       }
-      const v = Number(raw);
-      if (!Number.isFinite(v)) {
+      const v = parseNumber(raw);
+      if (!Number.isFinite(v) && !(NON_FINITE_ALLOWED.has(name) && !Number.isNaN(v))) {
         throw new XylemapError(`line ${line}: ${name} is not a finite number ("${raw}")`, { file, hint: 'use plain decimal numbers' });
       }
       return v;

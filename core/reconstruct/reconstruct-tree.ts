@@ -104,7 +104,8 @@ export function reconstructTree(cloud: PointCloud, options: ReconstructOptionsIn
     band_max_m: Math.max(ro.band_max_m, bandMinM),
   });
   lap('bands');
-  const skeleton = buildSkeleton(bands, ro);
+  // A real branch has at least about one vertex per half graph edge along its length.
+  const skeleton = buildSkeleton(bands, { ...ro, min_vertices_per_m: 2 / cleaned.graphRadiusM });
   lap('skeleton');
 
   progress?.('fit', 0, 1);

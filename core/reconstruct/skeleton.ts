@@ -28,6 +28,11 @@ export interface SkeletonOptions {
   segment_length_ratio: number;
   segment_min_m: number;
   segment_max_m: number;
+  /**
+   * Side shoots with fewer graph vertices per metre of their reach than this are strands of stray
+   * returns (mixed pixels, clutter chained by the graph), not branches; 0 disables the rule.
+   */
+  min_vertices_per_m?: number;
 }
 
 /**
@@ -36,6 +41,7 @@ export interface SkeletonOptions {
  *    than max(prune_min_length_m, prune_length_ratio × parent radius) beyond the parent is a bump
  *    of the surface, a stray leaf or a mixed-pixel spur, not a branch (common practice, no source).
  *    If every child is that short, the one reaching farthest is kept as the continuation.
+ *    Shoots with fewer vertices per metre than `min_vertices_per_m` are dropped the same way.
  * 2. Internodes: chains of clusters between furcations; the main continuation is decided later
  *    by the topology stage from the fitted radii.
  * 3. Pieces: each internode is cut into pieces of about clamp(segment_length_ratio × r, min, max)
@@ -48,26 +54,34 @@ export function buildSkeleton(bands: BandClusters, options: SkeletonOptions): Sk
   // Post-order (children after parents in creation order, so reverse index order works:
   // every child is created after its parent).
   const reach = new Float64Array(n);
+  const subVertices = new Float64Array(n);
   const kept = new Uint8Array(n).fill(1);
   const keptChildren: number[][] = Array.from({ length: n }, () => []);
+  const minDensity = options.min_vertices_per_m ?? 0;
   for (let c = n - 1; c >= 0; c--) {
     const kids = children[c];
     let r = bands.maxDistM[c];
+    let sv = bands.offsets[c + 1] - bands.offsets[c];
     if (kids.length === 1) {
       keptChildren[c].push(kids[0]);
       r = Math.max(r, reach[kids[0]]);
+      sv += subVertices[kids[0]];
     } else if (kids.length > 1) {
       const minLen = Math.max(options.prune_min_length_m, options.prune_length_ratio * bands.radiusM[c]);
-      let far = kids[0];
-      for (const k of kids) if (reach[k] > reach[far]) far = k;
+      const dense = (k: number): boolean => !(minDensity > 0) || subVertices[k] >= minDensity * Math.max(0, reach[k] - bands.maxDistM[c]);
+      let far = -1;
+      for (const k of kids) if (dense(k) && (far < 0 || reach[k] > reach[far])) far = k;
+      if (far < 0) far = kids.reduce((a, b) => (subVertices[b] > subVertices[a] ? b : a), kids[0]);
       for (const k of kids) {
-        if (k === far || reach[k] - bands.maxDistM[c] >= minLen) {
+        if (k === far || (reach[k] - bands.maxDistM[c] >= minLen && dense(k))) {
           keptChildren[c].push(k);
           r = Math.max(r, reach[k]);
+          sv += subVertices[k];
         } else kept[k] = 0;
       }
     }
     reach[c] = r;
+    subVertices[c] = sv;
   }
   // Labels of pruned subtrees go to the nearest kept ancestor.
   const prunedInto = new Int32Array(n);

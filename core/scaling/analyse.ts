@@ -4,6 +4,7 @@ import { XylemapError } from '../util/errors.js';
 import {
   evaluateFurcations,
   exponentIntervals,
+  medianValue,
   pooledExponent,
   streamRandom,
   type EvaluatedFurcation,
@@ -16,6 +17,9 @@ import { analyseTaper, type BranchTaperRow, type TaperSummary } from './taper.js
 import { theoryTable, theoryValues, type TheoryRow } from './theory.js';
 import { trendTest, type TrendTest } from './trend.js';
 import { wbeRatios, wbeWithInterval, type WbeRatios } from './wbe.js';
+
+/** Statuses that enter the median as censored values when option unsolvable = censored. */
+const CENSORED = new Set<string>(['children_thinner', 'child_thicker', 'above_range']);
 
 export const EXCLUSION_REASONS = ['unreliable_segments', 'below_min_radius', 'children_thinner', 'child_thicker', 'above_range'] as const;
 export type ExclusionReason = (typeof EXCLUSION_REASONS)[number];
@@ -30,8 +34,12 @@ export interface ExponentBlock {
   huber: number | null;
   n_furcations: number;
   n_used: number;
+  /** Used furcations with a root in (1, exponent_max]. */
+  n_solved: number;
   n_excluded: number;
   excluded_by_reason: Record<ExclusionReason, number>;
+  /** Used furcations without a root in range, entering the median as censored values (option unsolvable = censored). */
+  censored_by_reason: { children_thinner: number; child_thicker: number; above_range: number };
   /** Used furcations whose radii fell back to joint-adjacent segments. */
   n_radius_from_adjacent: number;
   /** Share of the observed between-furcation deviations kept in the bootstrap part of the interval. */
@@ -80,7 +88,7 @@ export interface FurcationRow {
   child_radii_se_m: string;
   exponent: number;
   status: FurcationStatus;
-  /** Share of this furcation in the estimate: inverse delta-method variance normalised over used furcations (equal when SEs are 0); 0 when excluded. */
+  /** Inverse delta-method variance normalised over solved furcations (equal when SEs are 0); 0 when censored or excluded. */
   weight: number;
   radius_source: string;
 }
@@ -121,7 +129,9 @@ export function analyseFurcationSet(
 ): ScalingResult {
   const edges = parseEdges(opts.radius_class_edges_m);
   const evaluated = evaluateFurcations(set, opts.min_radius_m, opts.exponent_max);
-  const used = evaluated.filter((f) => f.status === 'solved');
+  const censoredOk = opts.unsolvable === 'censored';
+  const used = evaluated.filter((f) => f.status === 'solved' || (censoredOk && CENSORED.has(f.status)));
+  const solved = used.filter((f) => f.status === 'solved');
   const B = opts.bootstrap_replicates;
   const conf = opts.confidence;
   const maxA = opts.exponent_max;
@@ -140,14 +150,18 @@ export function analyseFurcationSet(
   const main = exponentIntervals(set, used, B, conf, maxA, streamRandom(opts.seed, 0), true, labels);
 
   const excluded = Object.fromEntries(EXCLUSION_REASONS.map((r) => [r, 0])) as Record<ExclusionReason, number>;
-  for (const f of evaluated) if (f.status !== 'solved') excluded[f.status]++;
+  const censored = { children_thinner: 0, child_thicker: 0, above_range: 0 };
+  for (const f of evaluated) {
+    if (!used.includes(f)) excluded[f.status as ExclusionReason]++;
+    else if (f.status !== 'solved') censored[f.status as keyof typeof censored]++;
+  }
 
   const byOrder: ByOrderRow[] = [];
   groupings.forEach((g, gi) => {
     keyLists[gi].forEach((k, li) => {
       const all = evaluated.filter((f) => g.key(f) === k);
       const members = used.filter((f) => g.key(f) === k);
-      const logRatios = members.map((f) => Float64Array.from(f.childRadiiM, (r) => Math.log(r / f.parentRadiusM)));
+      const logRatios = members.filter((f) => f.status === 'solved').map((f) => Float64Array.from(f.childRadiiM, (r) => Math.log(r / f.parentRadiusM)));
       const part = main.groups[gi][li];
       byOrder.push({
         grouping: g.name,
@@ -162,9 +176,10 @@ export function analyseFurcationSet(
   });
 
   const trend = [
-    trendTest('branch_order', used.map((f) => f.record.parentBranchOrder), used.map((f) => f.exponent), opts.permutations, streamRandom(opts.seed, 5)),
-    trendTest('strahler_order', used.map((f) => f.record.parentStrahlerOrder), used.map((f) => f.exponent), opts.permutations, streamRandom(opts.seed, 6)),
-    trendTest('log_parent_radius', used.map((f) => Math.log(f.parentRadiusM)), used.map((f) => f.exponent), opts.permutations, streamRandom(opts.seed, 7)),
+    // Rank-based, so censored values (+∞) take part as the largest ranks.
+    trendTest('branch_order', used.map((f) => f.record.parentBranchOrder), used.map(medianValue), opts.permutations, streamRandom(opts.seed, 5)),
+    trendTest('strahler_order', used.map((f) => f.record.parentStrahlerOrder), used.map(medianValue), opts.permutations, streamRandom(opts.seed, 6)),
+    trendTest('log_parent_radius', used.map((f) => Math.log(f.parentRadiusM)), used.map(medianValue), opts.permutations, streamRandom(opts.seed, 7)),
   ];
 
   // WBE ratios need radii only, so every furcation with radii (not pre-excluded, above min radius) counts.
@@ -180,12 +195,14 @@ export function analyseFurcationSet(
       estimate: finiteOrNull(main.estimate),
       ci95: main.ci,
       confidence: conf,
-      method: 'median over furcations; interval: bootstrap over furcations (deviations shrunk by spread_shrink) plus Monte Carlo radius errors',
+      method: `median over furcations${censoredOk ? ' (unsolvable ones censored: +∞ or their root ≤ 1)' : ''}; interval: bootstrap over furcations (deviations shrunk by spread_shrink) plus Monte Carlo radius errors`,
       huber: finiteOrNull(main.huber),
       n_furcations: evaluated.length,
       n_used: used.length,
+      n_solved: solved.length,
       n_excluded: evaluated.length - used.length,
       excluded_by_reason: excluded,
+      censored_by_reason: censored,
       n_radius_from_adjacent: used.filter((f) => f.record.radiusSource === 'adjacent').length,
       spread_shrink: finiteOrNull(main.spreadShrink),
       measurement_sd: finiteOrNull(main.measurementSd),
@@ -194,7 +211,7 @@ export function analyseFurcationSet(
     pooled: {
       estimate: finiteOrNull(main.pooled),
       ci95: main.pooledCi,
-      n_used: used.length,
+      n_used: solved.length,
       method: 'least squares: minimise Σ_f (Σ_i (r_i/r_0)^a − 1)²; interval as for the median',
     },
     by_order: byOrder,
@@ -204,18 +221,17 @@ export function analyseFurcationSet(
     taper: extra.taper,
     radius_rule: extra.radiusRule,
     options: opts,
-    warnings: scalingWarnings(evaluated.length, used.length, excluded, used.filter((f) => f.record.radiusSource === 'adjacent').length),
+    warnings: scalingWarnings(evaluated.length, used.length, censored.children_thinner + censored.child_thicker + censored.above_range + excluded.children_thinner + excluded.child_thicker + excluded.above_range, used.filter((f) => f.record.radiusSource === 'adjacent').length),
   };
   return { summary, furcationRows: furcationRows(evaluated), branchTaperRows: extra.branchTaperRows };
 }
 
 /** Cautions a reader should see next to the estimate (thresholds: common practice, no source). */
-function scalingWarnings(total: number, used: number, excluded: Record<ExclusionReason, number>, adjacent: number): string[] {
+function scalingWarnings(total: number, used: number, unsolvable: number, adjacent: number): string[] {
   const w: string[] = [];
   if (total === 0) w.push('the network has no furcations; no exponent can be estimated');
   else if (used === 0) w.push('no furcation could be used; see excluded_by_reason');
   else if (used < 10) w.push(`only ${used} furcations used; the interval rests on few values`);
-  const unsolvable = excluded.children_thinner + excluded.child_thicker + excluded.above_range;
   if (total > 0 && unsolvable / total > 0.2) {
     w.push(`${unsolvable} of ${total} furcations have no exponent above 1 (children too thin or a child too thick); radii of thin branches may be biased`);
   }

@@ -33,6 +33,12 @@ export const scalingOptions = defineOptions('scaling', 'Area-preservation expone
     max: 1,
     help: 'furcations with a child radius below this are excluded (below what the scan resolves)',
   },
+  unsolvable: {
+    type: 'enum',
+    values: ['censored', 'excluded'] as const,
+    default: 'censored',
+    help: 'furcations without a root in (1, exponent_max]: censored = they enter the median (+∞, or their root ≤ 1), excluded = dropped (biases a low when leaders are nearly as thick as parents)',
+  },
   use_unreliable: {
     type: 'boolean',
     default: false,

@@ -38,7 +38,7 @@ export const simulateOptions = defineOptions('simulate', 'generate a tree with k
   scan_positions: { type: 'number', default: 4, unit: '1', min: 0, max: 32, integer: true, help: 'scan positions on a ring around the stem' },
   scan_distance_m: { type: 'number', default: 8, unit: 'm', min: 0.5, max: 200, help: 'radius of the ring of scan positions' },
   scanner_height_m: { type: 'number', default: 1.3, unit: 'm', min: 0, max: 20, help: 'height of the scanner head above the ground' },
-  scan_under_crown: { type: 'boolean', default: false, help: 'add one position under the crown, 1 m beside the stem' },
+  scan_under_crown: { type: 'boolean', default: false, help: 'add one position under the crown, 1 m (or 3 trunk radii) beside the stem' },
   angular_step_deg: { type: 'number', default: 0.08, unit: 'deg', min: 0.002, max: 2, help: 'angular step of the spherical scan, both azimuth and elevation' },
   range_noise_m: { type: 'number', default: 0.002, unit: 'm', min: 0, max: 0.2, help: 'standard deviation of the Gaussian range noise' },
   beam_exit_diameter_m: { type: 'number', default: 0.004, unit: 'm', min: 0, max: 0.05, help: 'beam diameter at the scanner' },

@@ -1,4 +1,5 @@
 import { createPointCloud, type PointCloud } from '../types/point-cloud.js';
+import { XylemapError } from '../util/errors.js';
 import { createRandom, type Random } from '../util/random.js';
 import { buildBvh, type Bvh } from './bvh.js';
 import { approach, footprintCoverage, rayAxisApproach, rayCylinder, rayDisc } from './intersect.js';
@@ -37,9 +38,20 @@ const INTENSITY_REFERENCE_RANGE_M = 2;
 /**
  * Scan positions: `scan_positions` on a ring of radius `scan_distance_m` around the stem base at
  * `scanner_height_m` (the first due east of the stem, then evenly spaced), plus one under the
- * crown 1 m beside the stem when `scan_under_crown`. Registration errors are drawn here.
+ * crown 1 m (or 3 trunk radii) beside the stem when `scan_under_crown`. Registration errors are drawn here.
+ * @throws XylemapError without positions, or with a ring inside the stem
  */
 export function scanPositions(o: SimulateOptions, rng: Random): ScanPosition[] {
+  if (o.scan_positions === 0 && !o.scan_under_crown) {
+    throw new XylemapError('no scan positions', { stage: 'simulate', option: 'simulate.scan_positions', hint: 'set scan_positions ≥ 1 or scan_under_crown true' });
+  }
+  if (o.scan_positions > 0 && !(o.scan_distance_m > o.trunk_base_radius_m + 0.2)) {
+    throw new XylemapError(`scan_distance_m must be > trunk radius + 0.2 m (${(o.trunk_base_radius_m + 0.2).toFixed(2)} m), got ${o.scan_distance_m}`, {
+      stage: 'simulate',
+      option: 'simulate.scan_distance_m',
+      hint: 'the scanner would stand inside the stem',
+    });
+  }
   const out: ScanPosition[] = [];
   const push = (x: number, y: number): void => {
     const first = out.length === 0;
@@ -56,7 +68,9 @@ export function scanPositions(o: SimulateOptions, rng: Random): ScanPosition[] {
     const phi = (2 * Math.PI * i) / o.scan_positions;
     push(o.scan_distance_m * Math.cos(phi), o.scan_distance_m * Math.sin(phi));
   }
-  if (o.scan_under_crown) push(Math.cos(Math.PI / 4), Math.sin(Math.PI / 4));
+  // Under the crown: 1 m from the stem axis, or 3 trunk radii for thick stems.
+  const under = Math.max(1, 3 * o.trunk_base_radius_m);
+  if (o.scan_under_crown) push(under * Math.cos(Math.PI / 4), under * Math.sin(Math.PI / 4));
   return out;
 }
 

@@ -40,6 +40,8 @@ export interface ScoreResult {
   furcations: { true: number; reconstructed: number; found: number; found_fraction: number | null };
   /** Share of matched samples whose reconstructed segment has the same centrifugal branching order. */
   branch_order_agreement: number | null;
+  /** Same, allowing the orders to differ by one (one spurious or missed furcation upstream). */
+  branch_order_within_one: number | null;
   exponent: { true: number; reconstructed: number; error: number } | null;
   conductance: { true_kg_s_mpa: number; reconstructed_kg_s_mpa: number; relative_error: number } | null;
   by_radius_class: ScoreClassRow[];
@@ -87,6 +89,7 @@ export function scoreNetworks(truth: Network, reconstructed: Network, options: S
   const matchedLength = new Float64Array(nClass);
   const relErrors: number[][] = RADIUS_CLASSES.map(() => []);
   let orderSame = 0;
+  let orderNear = 0;
   let orderTotal = 0;
 
   for (const s of truth.segments) {
@@ -112,6 +115,7 @@ export function scoreNetworks(truth: Network, reconstructed: Network, options: S
       relErrors[c].push((recon[j].radiusM - s.radiusM) / s.radiusM);
       orderTotal++;
       if (recon[j].branchOrder === s.branchOrder) orderSame++;
+      if (Math.abs(recon[j].branchOrder - s.branchOrder) <= 1) orderNear++;
     }
   }
 
@@ -188,6 +192,7 @@ export function scoreNetworks(truth: Network, reconstructed: Network, options: S
     radius: { samples: allErrors.length, median_relative_error: median(allErrors), rmse_relative_error: rms(allErrors) },
     furcations: { true: trueF.length, reconstructed: reconF.length, found, found_fraction: ratio(found, trueF.length) },
     branch_order_agreement: ratio(orderSame, orderTotal),
+    branch_order_within_one: ratio(orderNear, orderTotal),
     exponent:
       isNum(trueExponent) && isNum(reconstructedExponent)
         ? { true: trueExponent, reconstructed: reconstructedExponent, error: reconstructedExponent - trueExponent }

@@ -92,8 +92,22 @@ function prepare(options: SimulateOptions) {
 
 function finish(tree: GeneratedTree, positions: ScanPosition[], cloud: PointCloud, stats: ScanStats, options: SimulateOptions, preset: string | null): VirtualScan {
   cloud.source = { format: 'generated', software: `xylemap ${VERSION} simulate` };
+  countReturnsPerSegment(tree, cloud);
   const coverage = scanCoverage(tree.network, cloud);
   return { tree, positions, cloud, stats, truth: truthDocument(tree, positions, stats, options, preset, coverage) };
+}
+
+/** point_count of each true segment: its returns in the virtual scan (wood and mixed-pixel labels). */
+function countReturnsPerSegment(tree: GeneratedTree, cloud: PointCloud): void {
+  const segs = tree.network.segments;
+  const index = new Map(segs.map((s, i) => [s.segmentId, i]));
+  const counts = new Int32Array(segs.length);
+  const ids = cloud.extra.segment_id as Int32Array;
+  for (let p = 0; p < ids.length; p++) {
+    const i = ids[p] >= 0 ? index.get(ids[p]) : undefined;
+    if (i !== undefined) counts[i]++;
+  }
+  segs.forEach((s, i) => (s.pointCount = counts[i]));
 }
 
 /** Build truth.json from a generated tree and its scan. */

@@ -1,7 +1,7 @@
-import { existsSync, mkdirSync, mkdtempSync, readFileSync, writeFileSync } from 'node:fs';
+import { existsSync, mkdirSync, mkdtempSync, readFileSync, rmSync, writeFileSync } from 'node:fs';
 import { tmpdir } from 'node:os';
 import { join } from 'node:path';
-import { describe, expect, it } from 'vitest';
+import { afterAll, describe, expect, it } from 'vitest';
 import type { TreeJob, TreeOutcome } from '../../core/batch/run-batch.js';
 import { batchConfig, mergeBatchFolders, runBatchFolder, treeConfig } from '../../core/io/batch-driver.js';
 import { hashFile } from '../../core/io/tree-outputs.js';
@@ -26,9 +26,15 @@ function fakeProcessor(calls: string[]): (job: TreeJob) => Promise<TreeOutcome> 
   };
 }
 
+const made: string[] = [];
+afterAll(() => {
+  for (const d of made) rmSync(d, { recursive: true, force: true });
+});
+
 /** A campaign folder with 12 trees of three species on exact K–DBH power laws, plus an inventory. */
 function campaign(): { dir: string; manifest: string; inventory: string } {
   const dir = mkdtempSync(join(tmpdir(), 'xylemap-batch-'));
+  made.push(dir);
   mkdirSync(join(dir, 'clouds'));
   const rows = ['tree_id,species,file,field_dbh_m,plot,preset,notes'];
   const species = [

@@ -1,5 +1,5 @@
 import { execFileSync } from 'node:child_process';
-import { mkdtempSync, writeFileSync } from 'node:fs';
+import { mkdtempSync, rmSync, writeFileSync } from 'node:fs';
 import { tmpdir } from 'node:os';
 import { join } from 'node:path';
 import { describe, expect, it } from 'vitest';
@@ -44,7 +44,11 @@ describe('formatSlurmScript', () => {
     const dir = mkdtempSync(join(tmpdir(), 'xylemap-emit-'));
     const f = join(dir, 'job.sbatch');
     writeFileSync(f, text);
-    expect(() => execFileSync('bash', ['-n', f])).not.toThrow();
+    try {
+      expect(() => execFileSync('bash', ['-n', f])).not.toThrow();
+    } finally {
+      rmSync(dir, { recursive: true, force: true });
+    }
   });
 });
 

@@ -43,6 +43,11 @@ describe('parseSegmentsCsv', () => {
     expect(back).toEqual(segments);
   });
 
+  it('reads back an unknown radius standard error written as Inf', () => {
+    const s = { ...segment(0, -1, 0.2), radiusSeM: Infinity };
+    expect(parseSegmentsCsv(formatSegmentsCsv([s])).segments[0].radiusSeM).toBe(Infinity);
+  });
+
   it('fills defaults for optional columns of a minimal table', () => {
     const text = 'segment_id,parent_id,start_x,start_y,start_z,end_x,end_y,end_z,radius_m\n0,-1,0,0,0,0,0,2,0.1\n';
     const [s] = parseSegmentsCsv(text).segments;

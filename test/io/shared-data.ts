@@ -1,6 +1,7 @@
-import { mkdtempSync } from 'node:fs';
+import { mkdtempSync, rmSync } from 'node:fs';
 import { tmpdir } from 'node:os';
 import { join } from 'node:path';
+import { afterAll } from 'vitest';
 import type { PointCloud } from '../../core/types/point-cloud.js';
 
 /** Third-party reference data, read in place at ../shared/data relative to the repo root (never copied). */
@@ -8,9 +9,12 @@ export const SHARED = join(process.cwd(), '..', 'shared', 'data');
 export const REF = join(SHARED, 'las-reference');
 export const ref = (name: string) => join(REF, name);
 
-/** A fresh temporary folder for files a test writes. */
+const root = mkdtempSync(join(tmpdir(), 'xylemap-io-test-'));
+afterAll(() => rmSync(root, { recursive: true, force: true }));
+
+/** A fresh temporary folder for files a test writes; all are removed after the test file. */
 export function tempDir(): string {
-  return mkdtempSync(join(tmpdir(), 'xylemap-io-test-'));
+  return mkdtempSync(join(root, 'case-'));
 }
 
 /** Names of arrays that differ between two clouds (coordinates, attributes, extra, raw extra bytes). */

@@ -54,6 +54,14 @@ describe('buildReportHtml', () => {
     expect(html).toContain('<td class="key">colour_by</td><td class="text">&quot;branch_order&quot;</td>');
   });
 
+  it('builds a report for a one-segment network, saying why each plot is empty', () => {
+    const one = fixtureReportData(binaryTreeNetwork(0), false);
+    const page = buildReportHtml({ ...one, exponent: { perFurcation: [], estimate: null, interval: null, intervalLabel: '' } }, reportOptions.defaults(), VIEWER_STUB);
+    expect(one.network.segments.length).toBe(1);
+    expect((page.match(/class="plot plot-empty"/g) ?? []).length).toBe(4); // all but radius–order, which has its one dot
+    expect(payloadOf(page).count).toBe(1);
+  });
+
   it('disables colour choices the stages did not compute', () => {
     const bare = buildReportHtml(fixtureReportData(binaryTreeNetwork(3), false), reportOptions.defaults(), VIEWER_STUB);
     expect(bare).toMatch(/<option value="water_potential" disabled>/);

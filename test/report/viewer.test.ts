@@ -24,6 +24,12 @@ describe('categoryColour', () => {
     expect(categoryColour(CATEGORICAL.length)).toEqual(CATEGORICAL[0]);
     expect(categoryColour(-1)).toEqual(MISSING);
   });
+
+  it('switches to the ramp when there are more categories than colours', () => {
+    const n = CATEGORICAL.length + 5;
+    expect(categoryColour(0, n)).toEqual(RAMP[0]);
+    expect(categoryColour(n - 1, n)).toEqual(RAMP[RAMP.length - 1]);
+  });
 });
 
 describe('valueRange', () => {

@@ -74,13 +74,19 @@ describe('analyseScaling', () => {
     for (const id of internode(childrenOf(f2.segmentId)[0].segmentId)) segs[id].radiusM = f2.radiusM * 1.2;
     // f3: both children very thin relative to the parent (Σ r_i ≤ r_0), yet above min radius
     for (const c of childrenOf(f3.segmentId)) for (const id of internode(c.segmentId)) segs[id].radiusM = f3.radiusM * 0.3;
-    const e = analyseScaling(net, fast).summary.exponent;
+    const e = analyseScaling(net, { ...fast, unsolvable: 'excluded' }).summary.exponent;
     expect(e.excluded_by_reason.unreliable_segments).toBe(1);
     expect(e.excluded_by_reason.below_min_radius).toBe(1);
     expect(e.excluded_by_reason.child_thicker).toBeGreaterThanOrEqual(1);
     expect(e.excluded_by_reason.children_thinner).toBeGreaterThanOrEqual(1);
     expect(e.n_used + e.n_excluded).toBe(e.n_furcations);
     expect(e.n_excluded).toBeGreaterThanOrEqual(4);
+    // By default the unsolvable ones are kept as censored values instead, and counted as such.
+    const c = analyseScaling(net, fast).summary.exponent;
+    expect(c.excluded_by_reason.child_thicker + c.excluded_by_reason.children_thinner).toBe(0);
+    expect(c.censored_by_reason.child_thicker).toBe(e.excluded_by_reason.child_thicker);
+    expect(c.censored_by_reason.children_thinner).toBe(e.excluded_by_reason.children_thinner);
+    expect(c.n_used).toBe(e.n_used + c.censored_by_reason.child_thicker + c.censored_by_reason.children_thinner + c.censored_by_reason.above_range);
   });
 
   it('is repeatable: the same seed gives an identical summary', () => {

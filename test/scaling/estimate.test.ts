@@ -1,6 +1,7 @@
 import { describe, expect, it } from 'vitest';
 import { annotateNetwork } from '../../core/topology/annotate.js';
-import { combineRadius, evaluateFurcations, exponentIntervals, pooledExponent } from '../../core/scaling/estimate.js';
+import { analyseScaling } from '../../core/scaling/analyse.js';
+import { combineRadius, evaluateFurcations, exponentIntervals, medianValue, pooledExponent } from '../../core/scaling/estimate.js';
 import { collectFurcations } from '../../core/scaling/furcation-set.js';
 import { scalingOptions } from '../../core/scaling/options.js';
 import { exactExponentNetwork, withRadiusNoise } from '../../core/scaling/synthetic.js';
@@ -73,5 +74,21 @@ describe('exponentIntervals', () => {
     expect(median / reps).toBeLessThanOrEqual(0.98);
     expect(pooled / reps).toBeGreaterThanOrEqual(0.9);
     expect(pooled / reps).toBeLessThanOrEqual(0.98);
+  });
+});
+
+describe('medianValue', () => {
+  it('keeps a root ≤ 1 as it is and censors a furcation without a root at +∞', () => {
+    // Σ q^a is decreasing in a; with q_max ≥ 1 it never falls to 1, so the exponent is "infinite".
+    const net = exactExponentNetwork({ exponent: 2, depth: 1, segmentsPerInternode: 1 });
+    net.segments[1].radiusM = net.segments[0].radiusM * 1.1;
+    const thick = analyseScaling(net, { bootstrap_replicates: 100, permutations: 99, min_radius_m: 0.001 }).furcationRows[0];
+    expect(thick.status).toBe('child_thicker');
+    net.segments[1].radiusM = net.segments[2].radiusM = net.segments[0].radiusM * 0.4;
+    const { summary, furcationRows } = analyseScaling(net, { bootstrap_replicates: 100, permutations: 99, min_radius_m: 0.001 });
+    expect(furcationRows[0].status).toBe('children_thinner');
+    // 2·0.4^a = 1 → a = ln 2 / ln 2.5 (closed form)
+    expect(summary.exponent.estimate!).toBeCloseTo(Math.log(2) / Math.log(2.5), 12);
+    expect(medianValue({ status: 'child_thicker', exponent: NaN } as Parameters<typeof medianValue>[0])).toBe(Infinity);
   });
 });

@@ -4,7 +4,7 @@ import { formatSegmentsCsv } from '../../core/io/segments-csv.js';
 import { rayCylinder } from '../../core/simulate/intersect.js';
 import { simulateOptions, type SimulateOptions } from '../../core/simulate/options.js';
 import { presetOptions } from '../../core/simulate/presets.js';
-import { LABEL, scanScene, type ScanPosition } from '../../core/simulate/scanner.js';
+import { LABEL, scanPositions, scanScene, type ScanPosition } from '../../core/simulate/scanner.js';
 import { buildScene } from '../../core/simulate/scene.js';
 import { simulate } from '../../core/simulate/simulate.js';
 import type { Network, Vec3 } from '../../core/types/network.js';
@@ -146,6 +146,28 @@ describe('scanScene', () => {
     expect(wrongSource).toBe(0);
     expect([...seen].sort()).toEqual([0, 1, 2, 3, 4]);
     expect(v.truth.scan.points).toBe(v.cloud.count);
+    // point_count of the truth is the number of returns labelled with the segment.
+    const onSegments = seg.filter((id) => id >= 0).length;
+    expect(v.tree.network.segments.reduce((a, s) => a + s.pointCount, 0)).toBe(onSegments);
+  });
+});
+
+describe('scanPositions', () => {
+  it('puts the ring positions at the set distance and height, the first due east', () => {
+    const o = simulateOptions.resolve({ scan_positions: 4, scan_distance_m: 8, scanner_height_m: 1.5 });
+    const p = scanPositions(o, createRandom(1));
+    expect(p.map((q) => q.id)).toEqual([1, 2, 3, 4]);
+    expect(p[0].x).toBeCloseTo(8, 12);
+    expect(p[0].y).toBeCloseTo(0, 12);
+    for (const q of p) {
+      expect(Math.hypot(q.x, q.y)).toBeCloseTo(8, 12);
+      expect(q.z).toBe(1.5);
+    }
+  });
+
+  it('refuses a scan without positions and a ring inside the stem', () => {
+    expect(() => scanPositions(simulateOptions.resolve({ scan_positions: 0 }), createRandom(1))).toThrow(/no scan positions/);
+    expect(() => scanPositions(simulateOptions.resolve({ trunk_base_radius_m: 1, scan_distance_m: 1 }), createRandom(1))).toThrow(/inside the stem|must be >/);
   });
 });
 

@@ -1,7 +1,6 @@
 import { describe, expect, it } from 'vitest';
-import { scoreOptions } from '../../core/simulate/options.js';
+import { scoreOptions, simulateOptions } from '../../core/simulate/options.js';
 import { presetOptions } from '../../core/simulate/presets.js';
-import { simulateOptions } from '../../core/simulate/options.js';
 import { scoreNetworks, summariesFrom } from '../../core/simulate/score.js';
 import { generateTree } from '../../core/simulate/tree.js';
 import type { Network } from '../../core/types/network.js';
@@ -24,6 +23,7 @@ describe('scoreNetworks', () => {
     expect(r.radius.rmse_relative_error).toBe(0);
     expect(r.furcations.found_fraction).toBe(1);
     expect(r.branch_order_agreement).toBe(1);
+    expect(r.branch_order_within_one).toBe(1);
     expect(r.exponent?.error).toBe(0);
     for (const c of r.by_radius_class) {
       if (c.true_length_m === 0) continue;
@@ -61,6 +61,18 @@ describe('scoreNetworks', () => {
     expect(r.furcations.found_fraction!).toBeLessThan(1);
     expect(r.wood_volume.relative_error!).toBeLessThan(0);
     expect(r.radius.median_relative_error).toBe(0);
+  });
+
+  it('counts an order shifted by one as disagreeing but within one, and by two as neither', () => {
+    const plus = (k: number): Network => {
+      const n = copy(truth);
+      for (const s of n.segments) s.branchOrder += k;
+      return n;
+    };
+    const one = scoreNetworks(truth, plus(1), options);
+    expect(one.branch_order_agreement).toBe(0);
+    expect(one.branch_order_within_one).toBe(1);
+    expect(scoreNetworks(truth, plus(2), options).branch_order_within_one).toBe(0);
   });
 
   it('matches nothing when the reconstruction is shifted far beyond the tolerance', () => {

@@ -40,8 +40,13 @@ export function rampColour(t: number): Rgb {
   return [Math.round(a[0] + f * (b[0] - a[0])), Math.round(a[1] + f * (b[1] - a[1])), Math.round(a[2] + f * (b[2] - a[2]))];
 }
 
-export function categoryColour(k: number): Rgb {
+/**
+ * Colour of category k of `count`: the categorical set while it has enough colours, else the
+ * continuous ramp (so many branching orders stay distinguishable instead of repeating colours).
+ */
+export function categoryColour(k: number, count: number = CATEGORICAL.length): Rgb {
   if (!(k >= 0)) return MISSING;
+  if (count > CATEGORICAL.length) return rampColour(Math.floor(k) / (count - 1));
   return CATEGORICAL[Math.floor(k) % CATEGORICAL.length];
 }
 
@@ -51,6 +56,8 @@ export interface LayerScale {
   log?: boolean;
   /** Continuous: high values get the low end of the ramp (e.g. water potential: more negative = hotter). */
   reverse?: boolean;
+  /** Categorical: number of categories (decides between the categorical set and the ramp). */
+  categoryCount?: number;
 }
 
 /** Finite min and max (positive only when `log`); null when there is none. */
@@ -81,7 +88,7 @@ export function layerColours(values: ArrayLike<number>, scale: LayerScale, out: 
   for (let i = 0; i < values.length; i++) {
     const c =
       scale.kind === 'categorical'
-        ? categoryColour(values[i])
+        ? categoryColour(values[i], scale.categoryCount)
         : range
           ? rampColour(rampPosition(values[i], range, scale))
           : MISSING;

@@ -54,7 +54,7 @@ function legendHtml(layer: ViewerLayer, range: [number, number] | null, values: 
     const used = new Set<number>();
     for (let i = 0; i < values.length; i++) used.add(values[i]);
     const items = (layer.categories ?? [])
-      .map((name, k) => (used.has(k) ? `<li><span class="swatch" style="background:${cssColour(categoryColour(k))}"></span>${name}</li>` : ''))
+      .map((name, k) => (used.has(k) ? `<li><span class="swatch" style="background:${cssColour(categoryColour(k, layer.categories?.length))}"></span>${name}</li>` : ''))
       .join('');
     return `<div class="legend-title">${layer.label}${unit}</div><ul class="legend-cats">${items}</ul>`;
   }
@@ -133,7 +133,7 @@ function boot(): void {
       if (!layer || !layer.values) return;
       let values = decoded.get(key);
       if (!values) decoded.set(key, (values = decode(layer.values)));
-      const range = layerColours(values, { kind: layer.kind, log: layer.log, reverse: layer.reverse }, colours);
+      const range = layerColours(values, { kind: layer.kind, log: layer.log, reverse: layer.reverse, categoryCount: layer.categories?.length }, colours);
       view.setColours(colours);
       if (legend) legend.innerHTML = legendHtml(layer, range, values);
       if (select && select.value !== key) select.value = key;
