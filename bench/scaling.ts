@@ -44,7 +44,7 @@ export async function main(argv = process.argv.slice(2)): Promise<void> {
   const reps = quick ? 10 : 40;
   const B = quick ? 300 : 500;
   console.log('# scaling benchmark');
-  console.log('\n## 1. truth networks, default options (2000 replicates)');
+  console.log('\n## 1. truth networks, default options (1000 replicates)');
   console.log('tree                 a_true  segments  used/furc  estimate  pooled    ci95                 ms');
   for (const c of CASES) {
     const net = truth(c);

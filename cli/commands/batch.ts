@@ -8,9 +8,9 @@ import { parseShardFlag, shardFromEnv, type ShardSpec } from '../../core/batch/s
 import { writeFileAtomic } from '../../core/io/atomic.js';
 import { readManifestFile } from '../../core/io/batch-files.js';
 import { batchConfig, runBatchFolder } from '../../core/io/batch-driver.js';
-import { readConfigFile } from '../../core/io/config-file.js';
+import { readOptionalConfig } from '../../core/io/config-file.js';
 import { listPresets } from '../../core/io/presets.js';
-import { XylemapError } from '../../core/util/errors.js';
+import { wholeNumberFlag } from '../shared/whole-number-flag.js';
 
 interface BatchFlags {
   out: string;
@@ -33,12 +33,7 @@ interface BatchFlags {
 }
 
 function positiveInt(text: string | undefined, flag: string): number | undefined {
-  if (text === undefined) return undefined;
-  const n = Number(text);
-  if (!(Number.isInteger(n) && n >= 1)) {
-    throw new XylemapError(`${flag} must be a whole number ≥ 1, got "${text}"`, { stage: 'batch', option: flag.replace(/^--/, '') });
-  }
-  return n;
+  return wholeNumberFlag(text, flag, { stage: 'batch', option: flag.replace(/^--/, '') });
 }
 
 /** Progress on stderr, redrawn in place, only on a terminal and never with --json. */
@@ -63,7 +58,7 @@ function inVolume(path: string, mount: string): string {
 }
 
 function emitJobFiles(manifest: string, flags: BatchFlags, workers: number): Record<string, unknown> {
-  const rawConfig = flags.config ? readConfigFile(flags.config) : undefined;
+  const rawConfig = readOptionalConfig(flags.config);
   const options = batchConfig(rawConfig, flags.config);
   const rows = readManifestFile(manifest, { knownPresets: listPresets(), maxPlausibleDbhM: options.max_plausible_dbh_m });
   const shards = positiveInt(flags.shardCount, '--shard-count') ?? Math.min(rows.length, 32);
@@ -152,7 +147,7 @@ export function register(program: Command): void {
       }
       const shardCount = positiveInt(flags.shardCount, '--shard-count');
       const shard: ShardSpec | undefined = flags.shard ? parseShardFlag(flags.shard) : shardFromEnv(process.env, shardCount);
-      const rawConfig = flags.config ? readConfigFile(flags.config) : undefined;
+      const rawConfig = readOptionalConfig(flags.config);
       // Validate everything before starting threads (runBatchFolder checks again; it is cheap).
       batchConfig(rawConfig, flags.config);
       const progress = progressLine(Boolean(flags.json));

@@ -1,13 +1,15 @@
-import { existsSync, readFileSync, statSync } from 'node:fs';
+import { existsSync, statSync } from 'node:fs';
 import { dirname, join, resolve } from 'node:path';
-import { Option, type Command } from 'commander';
+import type { Command } from 'commander';
 import { analyseHydraulics, HYDRAULICS_CAUTION, HYDRAULICS_COLUMNS } from '../../core/hydraulics/analyse.js';
 import { BUILTIN_PRESETS, hydraulicsOptions } from '../../core/hydraulics/options.js';
 import { writeFileAtomic } from '../../core/io/atomic.js';
-import { readConfigFile } from '../../core/io/config-file.js';
+import { readConfigBlock } from '../../core/io/config-file.js';
 import { formatSegmentsCsv, parseSegmentsCsv } from '../../core/io/segments-csv.js';
-import { describeRule, type OptionSpec } from '../../core/options/declare.js';
-import { withFile, XylemapError } from '../../core/util/errors.js';
+import { mergeSummaryBlock, readExistingSummary } from '../../core/io/summary-file.js';
+import { withFile } from '../../core/util/errors.js';
+import { addDeclaredFlags, givenFlags } from '../shared/declared-flags.js';
+import { readTextFile } from '../shared/files.js';
 
 /**
  * `xylemap hydraulics <DIR/segments.csv>`: adds conduit, conductance, water-potential and PLC
@@ -29,23 +31,16 @@ export function register(program: Command): void {
     .option('--config <file>', 'YAML configuration; its "hydraulics" mapping sets the options below')
     .option('--out <dir>', 'output folder (default: the folder of the input)')
     .option('--json', 'print one JSON object to stdout instead of text');
-  const attribute = new Map<string, string>();
-  for (const [key, spec] of Object.entries(hydraulicsOptions.specs)) {
-    const option = flagFor(key, spec as OptionSpec);
-    attribute.set(key, option.attributeName());
-    cmd.addOption(option);
-  }
+  const attributes = addDeclaredFlags(cmd, hydraulicsOptions, { booleans: 'switch' });
   cmd.action((segmentsPath: string, flags: Record<string, unknown>, self: Command) => {
     // A tree's output folder works as well as its segments.csv.
     const given = resolve(segmentsPath);
     const input = existsSync(given) && statSync(given).isDirectory() ? join(given, 'segments.csv') : given;
     const outDir = resolve((flags.out as string | undefined) ?? dirname(input));
     const config = flags.config ? readConfig(flags.config as string) : {};
-    const fromFlags: Record<string, unknown> = {};
     // Only flags typed on the command line override the configuration (not commander's implied defaults).
-    for (const [key, attr] of attribute) if (self.getOptionValueSource(attr) === 'cli') fromFlags[key] = flags[attr];
-    const options = hydraulicsOptions.resolve({ ...config, ...fromFlags });
-    const network = parseSegmentsCsv(readText(input, 'segments table'), input);
+    const options = hydraulicsOptions.resolve({ ...config, ...givenFlags(self, flags, attributes) });
+    const network = parseSegmentsCsv(readTextFile(input, 'check the path', 'segments table'), input);
     const { summary, segmentColumns } = analyseHydraulics(network, options);
     network.segments.forEach((s, i) => {
       const extra = { ...(s.extra ?? {}) };
@@ -53,7 +48,7 @@ export function register(program: Command): void {
       s.extra = extra;
     });
     const summaryPath = join(outDir, 'summary.json');
-    const merged = mergeSummary(existingSummary(summaryPath, join(dirname(input), 'summary.json')), summary);
+    const merged = mergeSummaryBlock(readExistingSummary(summaryPath, join(dirname(input), 'summary.json')), 'hydraulics', summary);
     // Everything is computed before the first write, so a failure leaves no partial output.
     const segmentsOut = join(outDir, 'segments.csv');
     writeFileAtomic(segmentsOut, formatSegmentsCsv(network));
@@ -66,75 +61,15 @@ export function register(program: Command): void {
   });
 }
 
-/** A commander option built from an option declaration: `temperature_c` → `--temperature-c <number>`. */
-function flagFor(key: string, spec: OptionSpec): Option {
-  const flag = `--${key.replace(/_/g, '-')}`;
-  const unit = spec.type === 'number' && spec.unit !== '1' ? ` [${spec.unit}]` : '';
-  if (spec.type === 'boolean') {
-    return spec.default
-      ? new Option(`--no-${key.replace(/_/g, '-')}`, `do not: ${spec.help}`)
-      : new Option(flag, spec.help);
-  }
-  const option = new Option(`${flag} <${spec.type === 'number' ? 'number' : 'value'}>`, `${spec.help}${unit} (default ${JSON.stringify(spec.default)})`);
-  if (spec.type === 'enum') return option.choices([...spec.values]);
-  if (spec.type === 'number') {
-    return option.argParser((raw: string) => {
-      const v = Number(raw);
-      if (raw.trim() === '' || !Number.isFinite(v)) {
-        throw new XylemapError(`must be ${describeRule(spec)}, got "${raw}"`, { stage: 'hydraulics', option: `hydraulics.${key}`, hint: spec.help });
-      }
-      return v;
-    });
-  }
-  return option;
-}
-
-function readText(path: string, what: string): string {
-  try {
-    return readFileSync(path, 'utf8');
-  } catch (e) {
-    const code = (e as NodeJS.ErrnoException).code ?? 'read error';
-    throw new XylemapError(`cannot read ${what} (${code})`, { file: path, hint: 'check the path' });
-  }
-}
-
-/** The `hydraulics` mapping of a YAML configuration, validated (other stages' keys are left to them). */
+/** The `hydraulics` mapping of a YAML configuration, validated on its own so errors name the file. */
 function readConfig(path: string): Record<string, unknown> {
-  const value = readConfigFile(path);
-  if (value === null || value === undefined) return {};
-  if (typeof value !== 'object' || Array.isArray(value)) {
-    throw new XylemapError('a configuration must be a YAML mapping of stage names to options', { file: path });
-  }
-  const block = (value as Record<string, unknown>).hydraulics;
-  if (block === undefined || block === null) return {};
+  const block = readConfigBlock(path, 'hydraulics');
   try {
     hydraulicsOptions.resolve(block);
   } catch (e) {
     throw withFile(e, path);
   }
-  return block as Record<string, unknown>;
-}
-
-function existingSummary(...candidates: string[]): Record<string, unknown> | null {
-  for (const path of candidates) {
-    if (!existsSync(path)) continue;
-    try {
-      const value = JSON.parse(readFileSync(path, 'utf8'));
-      if (value && typeof value === 'object' && !Array.isArray(value)) return value as Record<string, unknown>;
-    } catch {
-      // fall through to the error below
-    }
-    throw new XylemapError('existing summary.json is not a JSON object', { file: path, hint: 'fix or remove it, then run again' });
-  }
-  return null;
-}
-
-/** Replace the hydraulics block and the hydraulics warnings, keep everything else. */
-function mergeSummary(existing: Record<string, unknown> | null, block: Record<string, unknown>): Record<string, unknown> {
-  const base = existing ?? { schema: 'xylemap.summary/1' };
-  const others = Array.isArray(base.warnings) ? base.warnings.filter((w) => !(typeof w === 'string' && w.startsWith('hydraulics: '))) : [];
-  const ours = (block.warnings as string[]).map((w) => `hydraulics: ${w}`);
-  return { ...base, hydraulics: block, warnings: [...others, ...ours] };
+  return block;
 }
 
 function textReport(s: Record<string, unknown>, outputs: string[]): string {

@@ -1,6 +1,6 @@
 import type { Command } from 'commander';
 import { mergeBatchFolders } from '../../core/io/batch-driver.js';
-import { readConfigFile } from '../../core/io/config-file.js';
+import { readOptionalConfig } from '../../core/io/config-file.js';
 
 interface MergeFlags {
   out: string;
@@ -20,7 +20,7 @@ export function register(program: Command): void {
     .option('--inventory <file>', 'CSV plot_id, plot_area_m2, species, dbh_m (one row per stem) to upscale conductance per ground area')
     .option('--json', 'print one JSON object')
     .action((folders: string[], flags: MergeFlags) => {
-      const rawConfig = flags.config ? readConfigFile(flags.config) : undefined;
+      const rawConfig = readOptionalConfig(flags.config);
       const r = mergeBatchFolders(folders, flags.out, rawConfig, flags.config, flags.inventory);
       if (flags.json) {
         process.stdout.write(`${JSON.stringify(r)}\n`);

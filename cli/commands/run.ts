@@ -1,5 +1,5 @@
 import type { Command } from 'commander';
-import { readConfigFile } from '../../core/io/config-file.js';
+import { readOptionalConfig } from '../../core/io/config-file.js';
 import { setConfigValue } from '../../core/pipeline/config.js';
 import { runPipeline } from '../../core/pipeline/run-pipeline.js';
 import { BUILTIN_PRESETS } from '../../core/hydraulics/options.js';
@@ -29,7 +29,7 @@ export function register(program: Command): void {
         'Results are model estimates from geometry plus assumed anatomy, not measurements and not a tree-safety assessment.',
     )
     .action(async (cloud: string, flags: RunFlags) => {
-      let config: unknown = flags.config ? readConfigFile(flags.config) : undefined;
+      let config: unknown = readOptionalConfig(flags.config);
       if (flags.preset !== undefined) config = setConfigValue(config, 'hydraulics.preset', flags.preset);
       const bar = createProgressBar(Boolean(flags.json));
       let result;

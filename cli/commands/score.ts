@@ -1,12 +1,13 @@
-import { existsSync, readFileSync, statSync } from 'node:fs';
+import { existsSync, statSync } from 'node:fs';
 import { dirname, join, resolve } from 'node:path';
 import type { Command } from 'commander';
-import { readConfigFile } from '../../core/io/config-file.js';
+import { readConfigBlock } from '../../core/io/config-file.js';
 import { parseSegmentsCsv } from '../../core/io/segments-csv.js';
 import { scoreOptions } from '../../core/simulate/options.js';
 import { scoreNetworks, summariesFrom, type ScoreResult } from '../../core/simulate/score.js';
-import { XylemapError } from '../../core/util/errors.js';
-import { addDeclaredFlags, configBlock, givenFlags } from './simulate.js';
+import { addDeclaredFlags, givenFlags } from '../shared/declared-flags.js';
+import { readOptionalJson, readTextFile } from '../shared/files.js';
+import { textTable } from '../shared/text-table.js';
 
 /**
  * `xylemap score <reconstruction-folder> <truth-folder>`: compare a reconstruction with the truth
@@ -29,13 +30,13 @@ export function register(program: Command): void {
     .option('--json', 'print one JSON object to stdout instead of a table');
   const attributes = addDeclaredFlags(cmd, scoreOptions);
   cmd.action((reconPath: string, truthPath: string, flags: Record<string, unknown>, self: Command) => {
-    const config = flags.config ? configBlock(readConfigFile(flags.config as string), flags.config as string, 'score') : {};
+    const config = flags.config ? readConfigBlock(flags.config as string, 'score') : {};
     const options = scoreOptions.resolve({ ...config, ...givenFlags(self, flags, attributes) });
     const recon = folderOf(reconPath);
     const truth = folderOf(truthPath);
-    const reconNet = parseSegmentsCsv(readText(recon.segments, 'a reconstruction folder needs segments.csv'), recon.segments);
-    const truthNet = parseSegmentsCsv(readText(truth.segments, 'a truth folder is written by `xylemap simulate --out DIR`'), truth.segments);
-    const summaries = summariesFrom(readJson(join(truth.dir, 'summary.json')), readJson(join(truth.dir, 'truth.json')), readJson(join(recon.dir, 'summary.json')));
+    const reconNet = parseSegmentsCsv(readTextFile(recon.segments, 'a reconstruction folder needs segments.csv'), recon.segments);
+    const truthNet = parseSegmentsCsv(readTextFile(truth.segments, 'a truth folder is written by `xylemap simulate --out DIR`'), truth.segments);
+    const summaries = summariesFrom(readOptionalJson(join(truth.dir, 'summary.json')), readOptionalJson(join(truth.dir, 'truth.json')), readOptionalJson(join(recon.dir, 'summary.json')));
     const result = scoreNetworks(truthNet, reconNet, options, summaries);
     if (flags.json) process.stdout.write(`${JSON.stringify({ score: result })}\n`);
     else process.stdout.write(textReport(result));
@@ -48,34 +49,9 @@ function folderOf(path: string): { dir: string; segments: string } {
   return { dir: p, segments: join(p, 'segments.csv') };
 }
 
-function readText(path: string, hint: string): string {
-  try {
-    return readFileSync(path, 'utf8');
-  } catch (e) {
-    const code = (e as NodeJS.ErrnoException).code ?? 'read error';
-    throw new XylemapError(code === 'ENOENT' ? 'file not found' : `cannot read file (${code})`, { file: path, hint });
-  }
-}
-
-/** An optional JSON file: undefined when absent; an error when present but not JSON. */
-function readJson(path: string): unknown {
-  if (!existsSync(path)) return undefined;
-  try {
-    return JSON.parse(readFileSync(path, 'utf8'));
-  } catch {
-    throw new XylemapError('not valid JSON', { file: path, hint: 'fix or remove the file, then run again' });
-  }
-}
-
 const num = (v: number | null | undefined, digits = 3): string => (typeof v === 'number' && Number.isFinite(v) ? v.toFixed(digits) : 'n/a');
 const pct = (v: number | null | undefined): string => (typeof v === 'number' && Number.isFinite(v) ? `${(100 * v).toFixed(1)} %` : 'n/a');
 const signedPct = (v: number | null | undefined): string => (typeof v === 'number' && Number.isFinite(v) ? `${v >= 0 ? '+' : ''}${(100 * v).toFixed(1)} %` : 'n/a');
-
-function table(header: string[], rows: string[][]): string[] {
-  const widths = header.map((h, i) => Math.max(h.length, ...rows.map((r) => r[i].length)));
-  const line = (r: string[]) => r.map((c, i) => c.padEnd(widths[i])).join('  ').trimEnd();
-  return [line(header), line(widths.map((w) => '-'.repeat(w))), ...rows.map(line)];
-}
 
 function textReport(r: ScoreResult): string {
   const lines = [
@@ -91,7 +67,7 @@ function textReport(r: ScoreResult): string {
     `  conductance   ${r.conductance ? `true ${num(r.conductance.true_kg_s_mpa, 5)}, reconstructed ${num(r.conductance.reconstructed_kg_s_mpa, 5)} kg s⁻¹ MPa⁻¹ (${signedPct(r.conductance.relative_error)})` : 'n/a (needs hydraulics.tree_conductance_kg_s_mpa in both summary.json)'}`,
     '',
     'by radius class',
-    ...table(
+    ...textTable(
       ['class', 'true length m', 'recovered', 'radius median', 'radius RMSE', 'true vol m³', 'recon vol m³', 'volume error', 'furcations', 'found'],
       r.by_radius_class.map((c) => [
         c.radius_class,

@@ -1,15 +1,15 @@
 import { availableParallelism } from 'node:os';
 import { join, resolve } from 'node:path';
-import { Option, type Command } from 'commander';
+import type { Command } from 'commander';
 import { writeFileAtomic } from '../../core/io/atomic.js';
-import { readConfigFile } from '../../core/io/config-file.js';
+import { readConfigBlock } from '../../core/io/config-file.js';
 import { encodeLas } from '../../core/io/las-write.js';
 import { formatSegmentsCsv } from '../../core/io/segments-csv.js';
-import { describeRule, type OptionSpecs, type StageOptions } from '../../core/options/declare.js';
 import { simulateOptions } from '../../core/simulate/options.js';
 import { PRESETS, presetOptions } from '../../core/simulate/presets.js';
 import { simulateParallel, type VirtualScan } from '../../core/simulate/simulate.js';
-import { XylemapError } from '../../core/util/errors.js';
+import { addDeclaredFlags, givenFlags } from '../shared/declared-flags.js';
+import { wholeNumberFlag } from '../shared/whole-number-flag.js';
 
 /**
  * `xylemap simulate --preset NAME --seed N --out DIR`: a virtual scan — a generated tree with
@@ -38,13 +38,10 @@ export function register(program: Command): void {
     .option('--json', 'print one JSON object to stdout instead of text');
   const attributes = addDeclaredFlags(cmd, simulateOptions);
   cmd.action(async (flags: Record<string, unknown>, self: Command) => {
-    const threads = flags.threads === undefined ? availableParallelism() : Number(flags.threads);
-    if (!(Number.isInteger(threads) && threads >= 1)) {
-      throw new XylemapError(`--threads must be a whole number ≥ 1, got "${String(flags.threads)}"`, { stage: 'simulate', hint: 'e.g. --threads 2' });
-    }
+    const threads = wholeNumberFlag(flags.threads as string | undefined, '--threads', { stage: 'simulate', hint: 'e.g. --threads 2' }) ?? availableParallelism();
     const preset = typeof flags.preset === 'string' ? flags.preset : null;
     const fromPreset = preset ? presetOptions(preset) : {};
-    const config = flags.config ? configBlock(readConfigFile(flags.config as string), flags.config as string, 'simulate') : {};
+    const config = flags.config ? readConfigBlock(flags.config as string, 'simulate') : {};
     const options = simulateOptions.resolve({ ...fromPreset, ...config, ...givenFlags(self, flags, attributes) });
     const started = performance.now();
     const scan = await simulateParallel(options, preset, threads);
@@ -62,58 +59,6 @@ export function register(program: Command): void {
     if (flags.json) process.stdout.write(`${JSON.stringify({ simulate: { tree: scan.truth.tree, scan: scan.truth.scan, seconds }, outputs })}\n`);
     else process.stdout.write(textReport(scan, seconds, outputs));
   });
-}
-
-/**
- * One `--key-with-dashes <value>` flag per declared option (boolean: `--key true|false`).
- * @returns option key → commander attribute name
- */
-export function addDeclaredFlags(cmd: Command, stage: StageOptions<OptionSpecs>): Map<string, string> {
-  const attributes = new Map<string, string>();
-  for (const [key, spec] of Object.entries(stage.specs)) {
-    const flag = `--${key.replace(/_/g, '-')}`;
-    const unit = spec.type === 'number' && spec.unit !== '1' ? ` [${spec.unit}]` : '';
-    const option = new Option(`${flag} <${spec.type === 'number' ? 'number' : spec.type === 'boolean' ? 'true|false' : 'value'}>`, `${spec.help}${unit} (default ${JSON.stringify(spec.default)})`);
-    if (spec.type === 'enum') option.choices([...spec.values]);
-    option.argParser((raw: string) => {
-      const path = `${stage.stage}.${key}`;
-      if (spec.type === 'number') {
-        const v = Number(raw);
-        if (raw.trim() === '' || !Number.isFinite(v)) throw new XylemapError(`must be ${describeRule(spec)}, got "${raw}"`, { stage: stage.stage, option: path, hint: spec.help });
-        return v;
-      }
-      if (spec.type === 'boolean') {
-        if (raw === 'true' || raw === '1') return true;
-        if (raw === 'false' || raw === '0') return false;
-        throw new XylemapError(`must be true or false, got "${raw}"`, { stage: stage.stage, option: path, hint: spec.help });
-      }
-      return raw;
-    });
-    attributes.set(key, option.attributeName());
-    cmd.addOption(option);
-  }
-  return attributes;
-}
-
-/** Values of the declared flags that were given on the command line. */
-export function givenFlags(self: Command, flags: Record<string, unknown>, attributes: Map<string, string>): Record<string, unknown> {
-  const out: Record<string, unknown> = {};
-  for (const [key, attr] of attributes) if (self.getOptionValueSource(attr) === 'cli') out[key] = flags[attr];
-  return out;
-}
-
-/** The mapping of one stage in a YAML configuration (empty when absent). */
-export function configBlock(value: unknown, file: string, stage: string): Record<string, unknown> {
-  if (value === undefined || value === null) return {};
-  if (typeof value !== 'object' || Array.isArray(value)) {
-    throw new XylemapError('a configuration must be a YAML mapping of stage names to options', { file });
-  }
-  const block = (value as Record<string, unknown>)[stage];
-  if (block === undefined || block === null) return {};
-  if (typeof block !== 'object' || Array.isArray(block)) {
-    throw new XylemapError(`"${stage}" must be a mapping of option keys to values`, { file, option: stage });
-  }
-  return block as Record<string, unknown>;
 }
 
 function textReport(scan: VirtualScan, seconds: number, outputs: string[]): string {

@@ -6,7 +6,7 @@ import type { LasHeader } from './las-header.js';
 import { decodeRecords, type LasLayout } from './las-points.js';
 
 /** Records decoded into the WASM staging buffer before each column pass. */
-const BLOCK_RECORDS = 4096;
+const BLOCK_RECORDS = 65_536;
 
 let lazPerf: Promise<LazPerf> | undefined;
 

@@ -30,6 +30,8 @@ export interface FitOptions {
 
 /** Largest factor between a fitted radius and the cluster's rough radius before the fit is rejected (common practice, no source). */
 const RADIUS_SANITY_FACTOR = 3;
+/** Largest fitted radius relative to the parent segment's radius that is accepted. */
+const PARENT_RATIO_MAX = 1.5;
 
 /**
  * One cylinder per skeleton piece, in the local frame. The axis starts from the direction between
@@ -59,8 +61,12 @@ export function fitSegments(input: FitInput, bands: BandClusters, skeleton: Skel
     if (!(Math.abs(axis[0]) + Math.abs(axis[1]) + Math.abs(axis[2]) > 0)) axis = [0, 0, 1];
     const rough = roughRadius(input, bands, piece.clusters, axis);
     const fit = pts.length >= options.min_fit_points ? fitCylinder(input.px, input.py, input.pz, pts, { initialAxis: axis, rangeNoiseM: options.range_noise_m }) : null;
-    const sane = fit !== null && fit.radiusM > 0 && fit.radiusM <= RADIUS_SANITY_FACTOR * Math.max(rough, 0.005) && fit.radiusM >= rough / RADIUS_SANITY_FACTOR;
     const parent = piece.parent >= 0 ? segments[piece.parent] : null;
+    // A branch is not much thicker than what carries it (common practice, no source): a fit above
+    // PARENT_RATIO_MAX × the parent's radius comes from a few stray points, not from wood.
+    const parentCap = parent ? PARENT_RATIO_MAX * parent.radiusM : Infinity;
+    const sane =
+      fit !== null && fit.radiusM > 0 && fit.radiusM <= RADIUS_SANITY_FACTOR * Math.max(rough, 0.005) && fit.radiusM >= rough / RADIUS_SANITY_FACTOR && fit.radiusM <= parentCap;
     let start: Vec3;
     let end: Vec3;
     let dir: Vec3 = sane ? (fit!.axisDir as Vec3) : axis;
@@ -78,8 +84,11 @@ export function fitSegments(input: FitInput, bands: BandClusters, skeleton: Skel
       const len = Math.max(1e-3, bands.maxDistM[last] - bands.minDistM[first]);
       end = [start[0] + dir[0] * len, start[1] + dir[1] * len, start[2] + dir[2] * len];
     }
-    const radiusM = sane ? fit!.radiusM : Math.max(rough, 1e-4);
-    const rel = sane ? assessReliability(fit, { rangeNoiseM: options.range_noise_m, minPoints: options.min_fit_points }) : { reliable: false, reason: fit ? 'poor_fit' : 'few_points' };
+    const radiusM = sane ? fit!.radiusM : Math.min(Math.max(rough, 1e-4), parent ? parent.radiusM : Infinity);
+    const tooThick = fit !== null && fit.radiusM > parentCap;
+    const rel = sane
+      ? assessReliability(fit, { rangeNoiseM: options.range_noise_m, minPoints: options.min_fit_points })
+      : { reliable: false, reason: tooThick ? 'taper_outlier' : fit ? 'poor_fit' : 'few_points' };
     segments.push({
       segmentId: p,
       parentId: piece.parent,
@@ -100,7 +109,58 @@ export function fitSegments(input: FitInput, bands: BandClusters, skeleton: Skel
       radiusCorrection: sane ? '' : 'cluster_spread',
     });
   }
-  return segments;
+  return splitAtInsertions(segments, skeleton);
+}
+
+/** Shortest piece a split may leave on either side of an insertion, m. */
+const MIN_SPLIT_PIECE_M = 0.02;
+
+/**
+ * Band clusters split only once the children have parted, a little above the true furcation, so
+ * the parent segment overshoots. Where a lateral's axis meets its parent's axis well before the
+ * parent's end, the parent is cut there: the lower part keeps the lateral, the upper part (same
+ * cylinder, its points shared pro rata) carries the other children. The furcation then sits where
+ * the branch leaves the stem, which matters e.g. for a fork just below breast height.
+ */
+function splitAtInsertions(segments: Segment[], skeleton: Skeleton): Segment[] {
+  const n = segments.length;
+  const children: number[][] = Array.from({ length: n }, () => []);
+  for (let i = 0; i < n; i++) if (segments[i].parentId >= 0) children[segments[i].parentId].push(i);
+  const out = segments;
+  for (let p = 0; p < n; p++) {
+    const kids = children[p];
+    if (kids.length < 2) continue;
+    const par = out[p];
+    const axis = sub(par.end, par.start);
+    const len2 = dot(axis, axis);
+    if (!(len2 > 0)) continue;
+    const len = Math.sqrt(len2);
+    // Lowest insertion among the laterals (children whose start was moved off the parent's end).
+    let lowest = -1;
+    let tLow = 1;
+    for (const c of kids) {
+      if (!skeleton.pieces[c].startsInternode) continue;
+      const st = out[c].start;
+      if (st[0] === par.end[0] && st[1] === par.end[1] && st[2] === par.end[2]) continue;
+      const t = dot(sub(st, par.start), axis) / len2;
+      if (t < tLow) {
+        tLow = t;
+        lowest = c;
+      }
+    }
+    if (lowest < 0 || !(tLow * len >= MIN_SPLIT_PIECE_M) || !((1 - tLow) * len >= MIN_SPLIT_PIECE_M)) continue;
+    const q: Vec3 = [par.start[0] + axis[0] * tLow, par.start[1] + axis[1] * tLow, par.start[2] + axis[2] * tLow];
+    const upperId = out.length;
+    const upperPoints = Math.round(par.pointCount * (1 - tLow));
+    out.push({ ...par, segmentId: upperId, parentId: p, start: q, end: [...par.end] as Vec3, lengthM: (1 - tLow) * len, pointCount: upperPoints });
+    par.end = [...q] as Vec3;
+    par.lengthM = tLow * len;
+    par.pointCount -= upperPoints;
+    out[lowest].start = [...q] as Vec3;
+    out[lowest].lengthM = Math.hypot(...sub(out[lowest].end, q));
+    for (const c of kids) if (c !== lowest) out[c].parentId = upperId;
+  }
+  return out;
 }
 
 /** Input points of the piece (through vertices → voxels). */

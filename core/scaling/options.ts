@@ -46,12 +46,12 @@ export const scalingOptions = defineOptions('scaling', 'Area-preservation expone
   },
   bootstrap_replicates: {
     type: 'number',
-    default: 2000,
+    default: 1000,
     unit: '1',
     min: 100,
     max: 100000,
     integer: true,
-    help: 'bootstrap replicates for every interval',
+    help: 'bootstrap replicates for every interval (1000 is the usual minimum for percentile intervals, Efron & Tibshirani 1993)',
   },
   permutations: {
     type: 'number',
