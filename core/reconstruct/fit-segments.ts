@@ -32,6 +32,8 @@ export interface FitOptions {
 const RADIUS_SANITY_FACTOR = 3;
 /** Largest fitted radius relative to the parent segment's radius that is accepted. */
 const PARENT_RATIO_MAX = 1.5;
+/** Largest fallback (unfitted) radius relative to the parent's radius (common practice, no source). */
+const FALLBACK_PARENT_RATIO = 0.3;
 
 /**
  * One cylinder per skeleton piece, in the local frame. The axis starts from the direction between
@@ -44,6 +46,8 @@ const PARENT_RATIO_MAX = 1.5;
  */
 export function fitSegments(input: FitInput, bands: BandClusters, skeleton: Skeleton, options: FitOptions): Segment[] {
   const segments: Segment[] = [];
+  /** Radius of the nearest fitted piece at or below each piece (its own when fitted), m. */
+  const fittedRadius: number[] = [];
   for (let p = 0; p < skeleton.pieces.length; p++) {
     const piece = skeleton.pieces[p];
     // A furcation cluster at the top of a piece holds the bases of its children too: leave it out
@@ -64,7 +68,10 @@ export function fitSegments(input: FitInput, bands: BandClusters, skeleton: Skel
     const parent = piece.parent >= 0 ? segments[piece.parent] : null;
     // A branch is not much thicker than what carries it (common practice, no source): a fit above
     // PARENT_RATIO_MAX × the parent's radius comes from a few stray points, not from wood.
-    const parentCap = parent ? PARENT_RATIO_MAX * parent.radiusM : Infinity;
+    // Caps refer to the nearest ancestor with a usable fit, so that one unfitted piece does not
+    // shrink the limits of everything above it.
+    const ancestorR = piece.parent >= 0 ? fittedRadius[piece.parent] : Infinity;
+    const parentCap = PARENT_RATIO_MAX * ancestorR;
     const sane =
       fit !== null && fit.radiusM > 0 && fit.radiusM <= RADIUS_SANITY_FACTOR * Math.max(rough, 0.005) && fit.radiusM >= rough / RADIUS_SANITY_FACTOR && fit.radiusM <= parentCap;
     let start: Vec3;
@@ -84,7 +91,12 @@ export function fitSegments(input: FitInput, bands: BandClusters, skeleton: Skel
       const len = Math.max(1e-3, bands.maxDistM[last] - bands.minDistM[first]);
       end = [start[0] + dir[0] * len, start[1] + dir[1] * len, start[2] + dir[2] * len];
     }
-    const radiusM = sane ? fit!.radiusM : Math.min(Math.max(rough, 1e-4), parent ? parent.radiusM : Infinity);
+    // Without a usable fit the rough spread stands in, capped at the fitted ancestor's radius (0.3 of it
+    // for the first piece of a side branch: below the 0.5 stem-fork ratio of the DBH rule, and never
+    // competing with a fitted continuation).
+    const fallbackCap = piece.startsInternode ? FALLBACK_PARENT_RATIO * ancestorR : ancestorR;
+    const radiusM = sane ? fit!.radiusM : Math.min(Math.max(rough, 1e-4), fallbackCap);
+    fittedRadius.push(sane ? fit!.radiusM : ancestorR);
     const tooThick = fit !== null && fit.radiusM > parentCap;
     const rel = sane
       ? assessReliability(fit, { rangeNoiseM: options.range_noise_m, minPoints: options.min_fit_points })

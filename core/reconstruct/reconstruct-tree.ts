@@ -14,6 +14,12 @@ import { fitSegments } from './fit-segments.js';
 import { summarizeReliability, type ReliabilitySummary } from './reliability-summary.js';
 import { correctNetworkRadii } from './correct-radii.js';
 
+/** A piece should hold this many times the fewest points a fit accepts (common practice, no source). */
+const PIECE_POINTS_PER_FIT_POINT = 3;
+
+/** Side shoots that stay below this height above the ground are ground clutter (common practice, no source). */
+const GROUND_SHOOT_HEIGHT_M = 0.5;
+
 export type ProgressCallback = (stage: string, done: number, total: number) => void;
 
 export interface ReconstructOptionsInput {
@@ -105,7 +111,24 @@ export function reconstructTree(cloud: PointCloud, options: ReconstructOptionsIn
   });
   lap('bands');
   // A real branch has at least about one vertex per half graph edge along its length.
-  const skeleton = buildSkeleton(bands, { ...ro, min_vertices_per_m: 2 / cleaned.graphRadiusM });
+  const clusterPoints = new Float64Array(bands.count);
+  const clusterMaxHeight = new Float64Array(bands.count).fill(-Infinity);
+  for (let c = 0; c < bands.count; c++) {
+    for (let a = bands.offsets[c]; a < bands.offsets[c + 1]; a++) {
+      const v = bands.vertices[a];
+      const vox = cleaned.vertexVoxel[v];
+      clusterPoints[c] += cleaned.voxels.pointOffsets[vox + 1] - cleaned.voxels.pointOffsets[vox];
+      if (cleaned.heightM[v] > clusterMaxHeight[c]) clusterMaxHeight[c] = cleaned.heightM[v];
+    }
+  }
+  const skeleton = buildSkeleton(bands, {
+    ...ro,
+    min_vertices_per_m: 2 / cleaned.graphRadiusM,
+    cluster_points: clusterPoints,
+    min_piece_points: PIECE_POINTS_PER_FIT_POINT * ro.min_fit_points,
+    cluster_max_height_m: clusterMaxHeight,
+    ground_shoot_height_m: GROUND_SHOOT_HEIGHT_M,
+  });
   lap('skeleton');
 
   progress?.('fit', 0, 1);

@@ -33,6 +33,16 @@ export interface SkeletonOptions {
    * returns (mixed pixels, clutter chained by the graph), not branches; 0 disables the rule.
    */
   min_vertices_per_m?: number;
+  /** Input points per cluster; with `min_piece_points`, a piece closes only once it holds that many. */
+  cluster_points?: ArrayLike<number>;
+  min_piece_points?: number;
+  /**
+   * Highest vertex of each cluster above the ground, m. With `ground_shoot_height_m`, side shoots
+   * that never rise above that height are dropped: near the stem base they are streaks of mixed
+   * pixels between stem and ground, grass or roots, not crown branches.
+   */
+  cluster_max_height_m?: ArrayLike<number>;
+  ground_shoot_height_m?: number;
 }
 
 /**
@@ -58,17 +68,22 @@ export function buildSkeleton(bands: BandClusters, options: SkeletonOptions): Sk
   const kept = new Uint8Array(n).fill(1);
   const keptChildren: number[][] = Array.from({ length: n }, () => []);
   const minDensity = options.min_vertices_per_m ?? 0;
+  const subMaxH = new Float64Array(n);
+  const lowLimit = options.cluster_max_height_m ? (options.ground_shoot_height_m ?? 0) : 0;
   for (let c = n - 1; c >= 0; c--) {
     const kids = children[c];
     let r = bands.maxDistM[c];
     let sv = bands.offsets[c + 1] - bands.offsets[c];
+    let mh = options.cluster_max_height_m ? options.cluster_max_height_m[c] : Infinity;
     if (kids.length === 1) {
       keptChildren[c].push(kids[0]);
       r = Math.max(r, reach[kids[0]]);
       sv += subVertices[kids[0]];
+      mh = Math.max(mh, subMaxH[kids[0]]);
     } else if (kids.length > 1) {
       const minLen = Math.max(options.prune_min_length_m, options.prune_length_ratio * bands.radiusM[c]);
-      const dense = (k: number): boolean => !(minDensity > 0) || subVertices[k] >= minDensity * Math.max(0, reach[k] - bands.maxDistM[c]);
+      const dense = (k: number): boolean =>
+        (!(minDensity > 0) || subVertices[k] >= minDensity * Math.max(0, reach[k] - bands.maxDistM[c])) && !(subMaxH[k] < lowLimit);
       let far = -1;
       for (const k of kids) if (dense(k) && (far < 0 || reach[k] > reach[far])) far = k;
       if (far < 0) far = kids.reduce((a, b) => (subVertices[b] > subVertices[a] ? b : a), kids[0]);
@@ -77,11 +92,13 @@ export function buildSkeleton(bands: BandClusters, options: SkeletonOptions): Sk
           keptChildren[c].push(k);
           r = Math.max(r, reach[k]);
           sv += subVertices[k];
+          mh = Math.max(mh, subMaxH[k]);
         } else kept[k] = 0;
       }
     }
     reach[c] = r;
     subVertices[c] = sv;
+    subMaxH[c] = mh;
   }
   // Labels of pruned subtrees go to the nearest kept ancestor.
   const prunedInto = new Int32Array(n);
@@ -118,18 +135,23 @@ export function buildSkeleton(bands: BandClusters, options: SkeletonOptions): Sk
     let group: number[] = [];
     let from = bands.minDistM[chain[0]];
     let target = targetLength(chain[0]);
+    let points = 0;
+    const minPoints = options.cluster_points ? (options.min_piece_points ?? 0) : 0;
     for (const c of chain) {
       group.push(c);
-      if (bands.maxDistM[c] - from >= target) {
+      points += options.cluster_points ? options.cluster_points[c] : 0;
+      // Sparse branches get longer pieces: a cylinder needs enough points to be fitted at all.
+      if (bands.maxDistM[c] - from >= target && points >= minPoints) {
         groups.push(group);
         group = [];
         from = bands.maxDistM[c];
         target = targetLength(c);
+        points = 0;
       }
     }
     if (group.length > 0) {
       const span = bands.maxDistM[group[group.length - 1]] - from;
-      if (groups.length > 0 && span < 0.5 * target) groups[groups.length - 1].push(...group);
+      if (groups.length > 0 && (span < 0.5 * target || points < 0.5 * minPoints)) groups[groups.length - 1].push(...group);
       else groups.push(group);
     }
     let parent = parentPiece;

@@ -147,12 +147,13 @@ export function analyseFurcationSet(
     return keys.sort((x, y) => sortKey(x) - sortKey(y));
   });
   const labels = groupings.map((g, gi) => ({ labels: Int32Array.from(used, (f) => keyLists[gi].indexOf(g.key(f)!)), count: keyLists[gi].length }));
-  const main = exponentIntervals(set, used, B, conf, maxA, streamRandom(opts.seed, 0), true, labels);
+  const main = exponentIntervals(set, used, B, conf, maxA, streamRandom(opts.seed, 0), true, labels, opts.monte_carlo_draws);
 
   const excluded = Object.fromEntries(EXCLUSION_REASONS.map((r) => [r, 0])) as Record<ExclusionReason, number>;
   const censored = { children_thinner: 0, child_thicker: 0, above_range: 0 };
+  const usedSet = new Set(used);
   for (const f of evaluated) {
-    if (!used.includes(f)) excluded[f.status as ExclusionReason]++;
+    if (!usedSet.has(f)) excluded[f.status as ExclusionReason]++;
     else if (f.status !== 'solved') censored[f.status as keyof typeof censored]++;
   }
 

@@ -1,6 +1,6 @@
 import { createRandom, type Random } from '../util/random.js';
 import { fitTaperRate, type FurcationRecord, type FurcationSet } from './furcation-set.js';
-import { exponentVariance, solveExponent, type FurcationStatus } from './solve.js';
+import { exponentVariance, solveExponent, solveLogRatios, type FurcationStatus } from './solve.js';
 import { finiteOrNull, huberLocation, madSigma, median, medianInPlace, percentileInterval } from './stats.js';
 
 /** One furcation with its combined radii and solved exponent. */
@@ -24,10 +24,12 @@ export interface EvaluatedFurcation {
  */
 export function combineRadius(samples: number[], radii: ArrayLike<number>, u?: number[], rate = 0): number {
   const m = samples.length;
-  const v = (k: number) => radii[samples[k]] * (rate !== 0 && u ? Math.exp(rate * u[k]) : 1);
-  if (m === 1) return v(0);
-  if (m === 2) return 0.5 * (v(0) + v(1));
-  return median(samples.map((_, k) => v(k)));
+  const adjust = rate !== 0 && u !== undefined;
+  if (m === 1) return radii[samples[0]] * (adjust ? Math.exp(rate * u[0]) : 1);
+  if (m === 2) {
+    return 0.5 * (radii[samples[0]] * (adjust ? Math.exp(rate * u[0]) : 1) + radii[samples[1]] * (adjust ? Math.exp(rate * u[1]) : 1));
+  }
+  return median(samples.map((s, k) => radii[s] * (adjust ? Math.exp(rate * u[k]) : 1)));
 }
 
 /** SE of a group radius, taken as the SE of the mean of the samples (exact for m ≤ 2; an approximation for the median). */
@@ -100,6 +102,9 @@ export interface ExponentIntervals {
  * The basic bootstrap interval of the replicates is reported (see intervalOf).
  *
  * @param withPooled also compute the pooled estimate's interval (costs one pooled fit per replicate)
+ * @param groupings labels (0..count−1) per used furcation, e.g. its branching order: a median and
+ *   interval per label, resampled within the label, sharing the Monte Carlo draws
+ * @param mcDraws Monte Carlo draws of the radius errors, cycled over the replicates
  */
 export function exponentIntervals(
   set: FurcationSet,
@@ -110,6 +115,7 @@ export function exponentIntervals(
   rng: Random,
   withPooled = true,
   groupings: { labels: Int32Array; count: number }[] = [],
+  mcDraws = 200,
 ): ExponentIntervals & { groups: GroupInterval[][] } {
   const n = used.length;
   const a = Float64Array.from(used, medianValue);
@@ -141,44 +147,55 @@ export function exponentIntervals(
   const mcRatios: Float64Array[] = [];
   const withShrink = (m: number, s: number, k: number): number =>
     Number.isFinite(a[k]) && Number.isFinite(vStar[k]) ? m + s * (a[k] - m) + (vStar[k] - a[k]) : vStar[k];
+  // Monte Carlo draws of the radius error: M of them, paired with the bootstrap replicates in turn
+  // (replicate b adds draw b mod M). The two parts are independent, so cycling M ≪ B draws keeps the
+  // sum's distribution while the costly part (re-solving every furcation) runs M times, not B.
+  const M = anyError ? Math.min(replicates, mcDraws) : 0;
+  const mcMain = new Float64Array(M);
+  const mcPooled = new Float64Array(M);
+  const mcGroups = groups.map((g) => g.map(() => new Float64Array(M)));
+  for (let d = 0; d < M; d++) {
+    drawRadii(set, samples, drawn, rng);
+    const rate = set.taper ? fitTaperRate(set.taper.internodes, drawn) : 0;
+    mcRatios.length = 0;
+    for (let k = 0; k < n; k++) {
+      const sol = solveDrawn(used[k].record, drawn, rate, maxExponent, a[k]);
+      vStar[k] = sol.value;
+      // Denoised value plus a fresh error: the median is not linear, so adding the error to the
+      // already-noisy a_k would overstate its spread (~15 % wider SD, measured).
+      mcValues[k] = withShrink(estimate, shrink, k);
+      if (withPooled && sol.solved && used[k].status === 'solved') mcRatios.push(sol.ratios);
+    }
+    mcMain[d] = medianInPlace(mcValues, n) - estimate;
+    mcPooled[d] = withPooled && mcRatios.length > 0 ? pooledExponent(mcRatios, maxExponent, pooled, 1e-10) - pooled : NaN;
+    groups.forEach((g, gi) => {
+      g.forEach((part, li) => {
+        let m = 0;
+        for (const k of part.members) mcValues[m++] = withShrink(part.estimate, part.shrink, k);
+        mcGroups[gi][li][d] = m > 0 ? medianInPlace(mcValues, m) - part.estimate : NaN;
+      });
+    });
+  }
   for (let b = 0; b < replicates; b++) {
+    const d = M > 0 ? b % M : -1;
     for (let k = 0; k < n; k++) picked[k] = a[rng.int(n)];
-    let rep = estimate + shrink * (medianInPlace(picked, n) - estimate);
-    let pooledRep = NaN;
-    if (withPooled && nS > 0) {
-      for (let k = 0; k < nS; k++) pickedRatios[k] = ratios[rng.int(nS)];
-      pooledRep = pooled + shrink * (pooledExponent(pickedRatios, maxExponent, pooled) - pooled);
-    }
-    if (anyError) {
-      drawRadii(set, samples, drawn, rng);
-      const rate = set.taper ? fitTaperRate(set.taper.internodes, drawn) : 0;
-      mcRatios.length = 0;
-      for (let k = 0; k < n; k++) {
-        const d = solveDrawn(used[k].record, drawn, rate, maxExponent);
-        vStar[k] = d.value;
-        // Denoised value plus a fresh error: the median is not linear, so adding the error to the
-        // already-noisy a_k would overstate its spread (~15 % wider SD, measured).
-        mcValues[k] = withShrink(estimate, shrink, k);
-        if (withPooled && d.solved && used[k].status === 'solved') mcRatios.push(d.ratios);
+    reps[b] = estimate + shrink * (medianInPlace(picked, n) - estimate) + (d >= 0 ? mcMain[d] : 0);
+    if (withPooled) {
+      let pooledRep = NaN;
+      if (nS > 0) {
+        for (let k = 0; k < nS; k++) pickedRatios[k] = ratios[rng.int(nS)];
+        pooledRep = pooled + shrink * (pooledExponent(pickedRatios, maxExponent, pooled, 1e-10) - pooled);
       }
-      rep += medianInPlace(mcValues, n) - estimate;
-      if (withPooled) pooledRep = mcRatios.length > 0 ? pooledRep + pooledExponent(mcRatios, maxExponent, pooled) - pooled : NaN;
+      pooledReps[b] = pooledRep + (d >= 0 ? mcPooled[d] : 0);
     }
-    reps[b] = rep;
-    if (withPooled) pooledReps[b] = pooledRep;
-    // Groups (e.g. by order) reuse this replicate's Monte Carlo draw and resample within the group.
+    // Groups (e.g. by order) resample within the group and share the Monte Carlo draws.
     groups.forEach((g, gi) => {
       g.forEach((part, li) => {
         const members = part.members;
         const ng = members.length;
         for (let k = 0; k < ng; k++) picked[k] = a[members[rng.int(ng)]];
-        let r = part.estimate + part.shrink * (medianInPlace(picked, ng) - part.estimate);
-        if (anyError) {
-          let m = 0;
-          for (const k of members) mcValues[m++] = withShrink(part.estimate, part.shrink, k);
-          r = m > 0 ? r + medianInPlace(mcValues, m) - part.estimate : NaN;
-        }
-        groupReps[gi][li][b] = r;
+        const r = part.estimate + part.shrink * (medianInPlace(picked, ng) - part.estimate);
+        groupReps[gi][li][b] = r + (d >= 0 ? mcGroups[gi][li][d] : 0);
       });
     });
   }
@@ -278,12 +295,19 @@ function drawRadii(set: FurcationSet, samples: Int32Array, out: Float64Array, rn
 }
 
 /** Median value (as medianValue), solved flag and log child/parent ratios of a furcation with drawn radii. */
-function solveDrawn(record: FurcationRecord, radii: Float64Array, rate: number, maxExponent: number): { value: number; solved: boolean; ratios: Float64Array } {
-  const r0 = combineRadius(record.parentSamples, radii, record.parentU, rate);
-  const q = Float64Array.from(record.childSamples, (s, c) => combineRadius(s, radii, record.childU[c], -rate) / r0);
-  const sol = solveExponent(1, q, maxExponent);
+function solveDrawn(
+  record: FurcationRecord,
+  radii: Float64Array,
+  rate: number,
+  maxExponent: number,
+  hint: number,
+): { value: number; solved: boolean; ratios: Float64Array } {
+  const lnr0 = Math.log(combineRadius(record.parentSamples, radii, record.parentU, rate));
+  const lnq = new Float64Array(record.childSamples.length);
+  for (let c = 0; c < lnq.length; c++) lnq[c] = Math.log(combineRadius(record.childSamples[c], radii, record.childU[c], -rate)) - lnr0;
+  const sol = solveLogRatios(lnq, maxExponent, hint);
   const value = sol.status === 'solved' || sol.status === 'children_thinner' ? sol.exponent : Infinity;
-  return { value, solved: sol.status === 'solved', ratios: q.map(Math.log) };
+  return { value, solved: sol.status === 'solved', ratios: lnq };
 }
 
 /**
@@ -292,8 +316,9 @@ function solveDrawn(record: FurcationRecord, radii: Float64Array, rate: number, 
  * own root in that range, so the derivative changes sign there).
  * @param logRatios per furcation ln(r_fi / r_f0) of each child
  * @param start starting point (e.g. the median estimate)
+ * @param tolerance relative step at which to stop (1e-10 is ample inside a bootstrap)
  */
-export function pooledExponent(logRatios: Float64Array[], maxExponent: number, start: number): number {
+export function pooledExponent(logRatios: Float64Array[], maxExponent: number, start: number, tolerance = 1e-14): number {
   if (logRatios.length === 0) return NaN;
   let lo = 1;
   let hi = maxExponent;
@@ -319,9 +344,9 @@ export function pooledExponent(logRatios: Float64Array[], maxExponent: number, s
     if (g < 0) lo = x;
     else hi = x;
     let next = h > 0 ? x - g / h : NaN;
-    if (Math.abs(next - x) <= 1e-14 * x) return next;
+    if (Math.abs(next - x) <= tolerance * x) return next;
     if (!(next > lo && next < hi)) next = 0.5 * (lo + hi);
-    if (hi - lo <= 1e-14 * x) return next;
+    if (hi - lo <= tolerance * x) return next;
     x = next;
   }
   return x;

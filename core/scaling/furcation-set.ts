@@ -146,10 +146,11 @@ function pickWindow(
 ): { samples: number[]; u: number[]; adjacent: boolean } {
   const k = options.radius_window_segments;
   const skip = options.joint_skip_segments;
-  // Distances count from the joint-adjacent segment's midpoint: radii are carried to the radius a
-  // cylinder next to the joint would have (the convention of generated truth and of calliper
-  // readings taken just below / above a joint).
-  const u = fromJoint(chain, segments).map((v, _, all) => v - all[0]);
+  // By default distances count from the joint-adjacent segment's midpoint: radii are carried to
+  // the radius a cylinder next to the joint would have (the convention of the scan lab's truth and
+  // of calliper readings just below / above a joint); taper_target = joint carries them to the joint.
+  const raw = fromJoint(chain, segments);
+  const u = options.taper_target === 'joint' ? raw : raw.map((v) => v - raw[0]);
   const result = (picked: number[], adjacent: boolean) => ({ samples: picked.map((p) => chain[p]), u: picked.map((p) => u[p]), adjacent });
   const positions = chain.map((_, p) => p);
   const window = positions.slice(skip).filter((p) => usable(chain[p])).slice(0, k);

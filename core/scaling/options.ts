@@ -25,6 +25,12 @@ export const scalingOptions = defineOptions('scaling', 'Area-preservation expone
     default: true,
     help: 'carry window radii to the joint with the tree\'s within-internode taper (removes the bias of measuring away from the joint)',
   },
+  taper_target: {
+    type: 'enum',
+    values: ['adjacent_segment', 'joint'] as const,
+    default: 'adjacent_segment',
+    help: 'where the taper adjustment carries radii: to the middle of the segment next to the joint (as the scan lab defines its truth) or to the joint itself',
+  },
   min_radius_m: {
     type: 'number',
     default: 0.01,
@@ -52,6 +58,15 @@ export const scalingOptions = defineOptions('scaling', 'Area-preservation expone
     max: 100000,
     integer: true,
     help: 'bootstrap replicates for every interval (1000 is the usual minimum for percentile intervals, Efron & Tibshirani 1993)',
+  },
+  monte_carlo_draws: {
+    type: 'number',
+    default: 200,
+    unit: '1',
+    min: 20,
+    max: 100000,
+    integer: true,
+    help: 'Monte Carlo draws of the radius errors (each re-solves every furcation), cycled over the bootstrap replicates',
   },
   permutations: {
     type: 'number',

@@ -35,42 +35,52 @@ export interface ExponentSolution {
  * @param childRadiiM r_i, m (each > 0, at least two)
  * @param maxExponent upper end of the bracket
  */
-export function solveExponent(parentRadiusM: number, childRadiiM: ArrayLike<number>, maxExponent = 50): ExponentSolution {
+export function solveExponent(parentRadiusM: number, childRadiiM: ArrayLike<number>, maxExponent = 50, hint = NaN): ExponentSolution {
   if (!(parentRadiusM > 0)) throw new RangeError(`parent radius must be > 0 m, got ${parentRadiusM}`);
   if (childRadiiM.length < 2) throw new RangeError(`a furcation needs at least 2 children, got ${childRadiiM.length}`);
-  const q = new Float64Array(childRadiiM.length);
-  let qMax = 0;
-  let qSum = 0;
-  for (let i = 0; i < q.length; i++) {
+  const lnq = new Float64Array(childRadiiM.length);
+  for (let i = 0; i < lnq.length; i++) {
     if (!(childRadiiM[i] > 0)) throw new RangeError(`child radius must be > 0 m, got ${childRadiiM[i]}`);
-    q[i] = childRadiiM[i] / parentRadiusM;
-    qMax = Math.max(qMax, q[i]);
-    qSum += q[i];
+    lnq[i] = Math.log(childRadiiM[i] / parentRadiusM);
   }
-  if (qMax >= 1) return { status: 'child_thicker', exponent: NaN };
-  if (qSum <= 1) return { status: 'children_thinner', exponent: rootOf(q, 0, 1) };
-  if (sumPow(q, maxExponent) - 1 > 0) return { status: 'above_range', exponent: NaN };
-  return { status: 'solved', exponent: rootOf(q, 1, maxExponent) };
+  return solveLogRatios(lnq, maxExponent, hint);
 }
 
-function sumPow(q: Float64Array, a: number): number {
+/**
+ * The same on log ratios ln(r_i / r_0), without checks (the Monte Carlo inner loop).
+ * @param hint a starting point near the expected root (e.g. the observed exponent), or NaN
+ */
+export function solveLogRatios(lnq: Float64Array, maxExponent: number, hint = NaN): ExponentSolution {
+  let lnMax = -Infinity;
+  let qSum = 0;
+  for (let i = 0; i < lnq.length; i++) {
+    if (lnq[i] > lnMax) lnMax = lnq[i];
+    qSum += Math.exp(lnq[i]);
+  }
+  if (lnMax >= 0) return { status: 'child_thicker', exponent: NaN };
+  if (qSum <= 1) return { status: 'children_thinner', exponent: rootOf(lnq, 0, 1, NaN) };
+  if (sumPow(lnq, maxExponent) - 1 > 0) return { status: 'above_range', exponent: NaN };
+  return { status: 'solved', exponent: rootOf(lnq, 1, maxExponent, hint) };
+}
+
+function sumPow(lnq: Float64Array, a: number): number {
   let s = 0;
-  for (let i = 0; i < q.length; i++) s += q[i] ** a;
+  for (let i = 0; i < lnq.length; i++) s += Math.exp(a * lnq[i]);
   return s;
 }
 
-/** Root of Σ q^a − 1 in [lo, hi], given f(lo) ≥ 0 ≥ f(hi). */
-function rootOf(q: Float64Array, lo: number, hi: number): number {
+/** Root of Σ e^(a·ln q) − 1 in [lo, hi], given f(lo) ≥ 0 ≥ f(hi); starts at `hint` when it lies inside. */
+function rootOf(lnq: Float64Array, lo: number, hi: number, hint: number): number {
   let a = lo;
   let b = hi;
-  let x = lo;
+  let x = hint > lo && hint < hi ? hint : lo;
   for (let iter = 0; iter < 200; iter++) {
     let f = -1;
     let df = 0;
-    for (let i = 0; i < q.length; i++) {
-      const p = q[i] ** x;
+    for (let i = 0; i < lnq.length; i++) {
+      const p = Math.exp(x * lnq[i]);
       f += p;
-      df += p * Math.log(q[i]);
+      df += p * lnq[i];
     }
     if (f === 0) return x;
     if (f > 0) a = x;

@@ -58,6 +58,16 @@ describe('collectFurcations', () => {
     for (const i of [4, 5, 6, 7]) segs[i].reliable = false;
     expect(collectFurcations(annotateNetwork({ segments: segs }), noTaper).furcations[0].preExclusion).toBe('unreliable_segments');
   });
+
+  it('measures window positions from the joint-adjacent segment by default, from the joint on request', () => {
+    // Four 1 m segments: midpoints at 0.125, 0.375, 0.625, 0.875 of the internode from the joint.
+    const segs = forked([0.5, 0.4, 0.3, 0.2], [0.15, 0.14, 0.13, 0.12], [0.1, 0.09, 0.08, 0.07]);
+    const ann = annotateNetwork({ segments: segs });
+    const adjacent = collectFurcations(ann, scalingOptions.resolve({})).furcations[0];
+    const joint = collectFurcations(ann, scalingOptions.resolve({ taper_target: 'joint' })).furcations[0];
+    expect(adjacent.parentU.map((u) => +u.toFixed(12))).toEqual([0.25, 0.5]);
+    expect(joint.parentU.map((u) => +u.toFixed(12))).toEqual([0.375, 0.625]);
+  });
 });
 
 describe('fitTaperRate', () => {
