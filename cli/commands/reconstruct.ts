@@ -3,15 +3,14 @@ import { cleanOptions } from '../../core/clean/options.js';
 import { reconstructOptions } from '../../core/reconstruct/options.js';
 import { reconstructTree } from '../../core/reconstruct/reconstruct-tree.js';
 import { readCloud } from '../../core/io/read-cloud.js';
-import { readConfigFile } from '../../core/io/config-file.js';
+import { readOptionalConfig } from '../../core/io/config-file.js';
 import { checkInputFile, hashFile, writeTreeOutputs } from '../../core/io/tree-outputs.js';
 import { reconstructOutputs, reconstructSummary } from '../../core/io/reconstruct-outputs.js';
 import { XylemapError } from '../../core/util/errors.js';
-import type { OptionSpecs, StageOptions } from '../../core/options/declare.js';
 import { createProgressBar } from '../progress.js';
-import { addStageFlags, stageFlagValues } from './option-flags.js';
+import { addStageFlags, stageFlagValues } from '../shared/declared-flags.js';
 
-const STAGES = [cleanOptions, reconstructOptions] as unknown as StageOptions<OptionSpecs>[];
+const STAGES = [cleanOptions, reconstructOptions];
 
 /** `xylemap reconstruct <scan> --out DIR`: scan → cleaned cloud → cylinder network and its files. */
 export function register(program: Command): void {
@@ -27,7 +26,7 @@ export function register(program: Command): void {
   cmd.action(async (scan: string, opts: Record<string, unknown>) => {
     const startedAt = new Date().toISOString();
     checkInputFile(scan);
-    const fromFile = opts.config ? (readConfigFile(String(opts.config)) as Record<string, unknown> | undefined) ?? {} : {};
+    const fromFile = (readOptionalConfig(opts.config as string | undefined) as Record<string, unknown> | undefined) ?? {};
     if (typeof fromFile !== 'object' || Array.isArray(fromFile)) {
       throw new XylemapError('configuration must be a mapping of stage names to options', { file: String(opts.config) });
     }

@@ -1,17 +1,18 @@
-import { existsSync, readFileSync } from 'node:fs';
 import { extname, join, resolve } from 'node:path';
-import { Option, type Command } from 'commander';
+import type { Command } from 'commander';
 import { writeFileAtomic } from '../../core/io/atomic.js';
-import { readConfigFile } from '../../core/io/config-file.js';
+import { readConfigBlock } from '../../core/io/config-file.js';
 import { parseCsv } from '../../core/io/csv.js';
 import { parseNetworkJson } from '../../core/io/network-json.js';
 import { parseSegmentsCsv } from '../../core/io/segments-csv.js';
-import { describeRule, type OptionSpec } from '../../core/options/declare.js';
 import { analyseMeasuredFurcations, analyseScaling, type ScalingResult, type ScalingSummary } from '../../core/scaling/analyse.js';
 import { formatFurcationsCsv } from '../../core/scaling/furcations-csv.js';
 import { isMeasuredFurcationsHeader, MEASURED_COLUMNS, parseMeasuredFurcations } from '../../core/scaling/measured.js';
 import { scalingOptions } from '../../core/scaling/options.js';
-import { XylemapError } from '../../core/util/errors.js';
+import { mergeSummaryBlock, readExistingSummary } from '../../core/io/summary-file.js';
+import { addDeclaredFlags, givenFlags } from '../shared/declared-flags.js';
+import { readTextFile } from '../shared/files.js';
+import { textTable } from '../shared/text-table.js';
 
 /**
  * `xylemap scaling <segments.csv | network.json | furcations-measured.csv>`: area-preservation
@@ -38,26 +39,17 @@ Precedence: defaults < --config < flags.`,
     .option('--config <file>', 'YAML configuration; its "scaling" mapping sets the options below')
     .option('--out <dir>', 'write furcations.csv and summary.json here')
     .option('--json', 'print one JSON object to stdout instead of tables');
-  const attribute = new Map<string, string>();
-  for (const [key, spec] of Object.entries(scalingOptions.specs)) {
-    const option = flagFor(key, spec as OptionSpec);
-    attribute.set(key, option.attributeName());
-    cmd.addOption(option);
-  }
+  const attributes = addDeclaredFlags(cmd, scalingOptions, { booleans: 'switch' });
   cmd.action((inputPath: string, flags: Record<string, unknown>, self: Command) => {
     const input = resolve(inputPath);
-    const config = flags.config ? configBlock(readConfigFile(flags.config as string), flags.config as string) : {};
-    const fromFlags: Record<string, unknown> = {};
-    for (const [key, attr] of attribute) if (self.getOptionValueSource(attr) === 'cli') fromFlags[key] = flags[attr];
-    const options = scalingOptions.resolve({ ...config, ...fromFlags });
-    const result = analyseInput(input, readText(input), options);
+    const config = flags.config ? readConfigBlock(flags.config as string, 'scaling') : {};
+    const options = scalingOptions.resolve({ ...config, ...givenFlags(self, flags, attributes) });
+    const result = analyseInput(input, readTextFile(input, 'give a segments.csv, network.json or measured-furcations CSV'), options);
     const written: string[] = [];
     if (flags.out) {
       const outDir = resolve(flags.out as string);
       const summaryPath = join(outDir, 'summary.json');
-      const base = existingSummary(summaryPath) ?? { schema: 'xylemap.summary/1' };
-      const others = Array.isArray(base.warnings) ? base.warnings.filter((w) => !(typeof w === 'string' && w.startsWith('scaling: '))) : [];
-      const merged = { ...base, scaling: result.summary, warnings: [...others, ...result.summary.warnings.map((w) => `scaling: ${w}`)] };
+      const merged = mergeSummaryBlock(readExistingSummary(summaryPath), 'scaling', result.summary);
       const furcationsPath = join(outDir, 'furcations.csv');
       const csv = formatFurcationsCsv(result.furcationRows);
       writeFileAtomic(furcationsPath, csv);
@@ -76,72 +68,9 @@ function analyseInput(path: string, text: string, options: ReturnType<typeof sca
   return analyseScaling(parseSegmentsCsv(text, path), options);
 }
 
-/** `--radius-window-segments <number>` etc. from the declarations. */
-function flagFor(key: string, spec: OptionSpec): Option {
-  const flag = `--${key.replace(/_/g, '-')}`;
-  const unit = spec.type === 'number' && spec.unit !== '1' ? ` [${spec.unit}]` : '';
-  if (spec.type === 'boolean') {
-    return spec.default ? new Option(`--no-${key.replace(/_/g, '-')}`, `do not: ${spec.help}`) : new Option(flag, spec.help);
-  }
-  const option = new Option(`${flag} <${spec.type === 'number' ? 'number' : 'value'}>`, `${spec.help}${unit} (default ${JSON.stringify(spec.default)})`);
-  if (spec.type === 'enum') return option.choices([...spec.values]);
-  if (spec.type === 'number') {
-    return option.argParser((raw: string) => {
-      const v = Number(raw);
-      if (raw.trim() === '' || !Number.isFinite(v)) {
-        throw new XylemapError(`must be ${describeRule(spec)}, got "${raw}"`, { stage: 'scaling', option: `scaling.${key}`, hint: spec.help });
-      }
-      return v;
-    });
-  }
-  return option;
-}
-
-function readText(path: string): string {
-  try {
-    return readFileSync(path, 'utf8');
-  } catch (e) {
-    const code = (e as NodeJS.ErrnoException).code ?? 'read error';
-    throw new XylemapError(code === 'ENOENT' ? 'file not found' : `cannot read file (${code})`, {
-      file: path,
-      hint: 'give a segments.csv, network.json or measured-furcations CSV',
-    });
-  }
-}
-
-function configBlock(value: unknown, file: string): Record<string, unknown> {
-  if (value === undefined || value === null) return {};
-  if (typeof value !== 'object' || Array.isArray(value)) {
-    throw new XylemapError('a configuration must be a YAML mapping of stage names to options', { file });
-  }
-  const block = (value as Record<string, unknown>).scaling;
-  if (block === undefined || block === null) return {};
-  if (typeof block !== 'object' || Array.isArray(block)) {
-    throw new XylemapError('"scaling" must be a mapping of option keys to values', { file, option: 'scaling' });
-  }
-  return block as Record<string, unknown>;
-}
-
-function existingSummary(path: string): Record<string, unknown> | null {
-  if (!existsSync(path)) return null;
-  try {
-    const value = JSON.parse(readFileSync(path, 'utf8'));
-    if (value && typeof value === 'object' && !Array.isArray(value)) return value as Record<string, unknown>;
-  } catch {
-    // reported below
-  }
-  throw new XylemapError('existing summary.json is not a JSON object', { file: path, hint: 'fix or remove it, then run again' });
-}
-
 const num = (v: number | null | undefined, digits = 3): string => (typeof v === 'number' && Number.isFinite(v) ? v.toFixed(digits) : 'n/a');
 const ci = (c: [number | null, number | null]): string => `[${num(c[0])}, ${num(c[1])}]`;
 const yes = (b: boolean | null): string => (b === null ? 'n/a' : b ? 'yes' : 'no');
-
-function table(header: string[], rows: string[][]): string[] {
-  const widths = header.map((h, i) => Math.max(h.length, ...rows.map((r) => r[i].length)));
-  const line = (r: string[]) => r.map((c, i) => c.padEnd(widths[i])).join('  ').trimEnd();
-  return [line(header), line(widths.map((w) => '-'.repeat(w))), ...rows.map(line)];
-}
 
 function textReport(s: ScalingSummary, written: string[]): string {
   const e = s.exponent;
@@ -162,19 +91,19 @@ function textReport(s: ScalingSummary, written: string[]): string {
     `  spread              observed SD ${num(e.observed_sd)}, from radius errors ${num(e.measurement_sd)}`,
     '',
     'theory',
-    ...table(
+    ...textTable(
       ['name', 'a', 'difference', `inside ${pct} % (median)`, `inside ${pct} % (pooled)`],
       s.theory.map((t) => [t.name, num(t.value), num(t.difference), yes(t.inside_ci95), yes(t.inside_pooled_ci95)]),
     ),
     '',
     'by order',
-    ...table(
+    ...textTable(
       ['grouping', 'group', 'n used', 'excluded', 'estimate', `${pct} % interval`, 'pooled'],
       s.by_order.map((r) => [r.grouping, r.group, String(r.n_used), String(r.n_excluded), num(r.estimate), ci(r.ci95), num(r.pooled)]),
     ),
     '',
     'trend across orders (Spearman, permutation p)',
-    ...table(
+    ...textTable(
       ['variable', 'n', 'rho', 'p'],
       s.trend.map((t) => [t.variable, String(t.n), num(t.spearman_rho), num(t.p_value)]),
     ),

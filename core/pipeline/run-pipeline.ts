@@ -1,5 +1,5 @@
 import { basename } from 'node:path';
-import { formatCsv } from '../io/csv.js';
+import { formatFurcationsCsv } from '../scaling/furcations-csv.js';
 import { cylindersMesh } from '../io/cylinders-mesh.js';
 import { formatGraphml } from '../io/graphml.js';
 import { encodeLas, lasOptionsLike, type LasWriteOptions } from '../io/las-write.js';
@@ -125,8 +125,10 @@ export async function runPipeline(input: RunInput, config?: unknown, options: { 
   const rec = ctx.reconstruction!;
   const network = withColumns(rec.network, ctx.hydraulics?.segmentColumns);
   const hydraulicsSummary = ctx.hydraulics?.summary ?? null;
-  const stageWarnings = (hydraulicsSummary?.warnings as string[] | undefined) ?? [];
-  const warnings = [...rec.warnings, ...stageWarnings];
+  // Stage warnings carry the stage name, as `mergeSummaryBlock` writes them for single-stage commands.
+  const stageWarnings = (stage: string, block: { warnings?: unknown } | null | undefined): string[] =>
+    Array.isArray(block?.warnings) ? block.warnings.map((w) => `${stage}: ${String(w)}`) : [];
+  const warnings = [...rec.warnings, ...stageWarnings('scaling', ctx.scaling?.summary), ...stageWarnings('hydraulics', hydraulicsSummary)];
 
   const file = basename(input.path);
   const summary: Record<string, unknown> = {
@@ -147,12 +149,7 @@ export async function runPipeline(input: RunInput, config?: unknown, options: { 
   const outputs: TreeOutputs = time(timingsMs, 'outputs', () => {
     const out: TreeOutputs = {};
     out['segments.csv'] = formatSegmentsCsv(network);
-    const rows = ctx.scaling?.furcationRows ?? [];
-    const header = rows.length > 0 ? Object.keys(rows[0]) : ['furcation_id'];
-    out['furcations.csv'] = formatCsv(
-      header,
-      rows.map((r) => header.map((h) => (r as unknown as Record<string, string | number | boolean>)[h])),
-    );
+    out['furcations.csv'] = formatFurcationsCsv(ctx.scaling?.furcationRows ?? []);
     out['network.json'] = formatNetworkJson(network, { source: file, tool_version: VERSION });
     out['network.graphml'] = formatGraphml(network);
     out['cylinders.ply'] = encodePlyMesh(cylindersMesh(network));

@@ -48,6 +48,8 @@ export function fitSegments(input: FitInput, bands: BandClusters, skeleton: Skel
   const segments: Segment[] = [];
   /** Radius of the nearest fitted piece at or below each piece (its own when fitted), m. */
   const fittedRadius: number[] = [];
+  /** Radius each piece actually got (fitted or fallback), m: bounds the fallback of the piece above. */
+  const usedRadius: number[] = [];
   for (let p = 0; p < skeleton.pieces.length; p++) {
     const piece = skeleton.pieces[p];
     // A furcation cluster at the top of a piece holds the bases of its children too: leave it out
@@ -94,9 +96,13 @@ export function fitSegments(input: FitInput, bands: BandClusters, skeleton: Skel
     // Without a usable fit the rough spread stands in, capped at the fitted ancestor's radius (0.3 of it
     // for the first piece of a side branch: below the 0.5 stem-fork ratio of the DBH rule, and never
     // competing with a fitted continuation).
-    const fallbackCap = piece.startsInternode ? FALLBACK_PARENT_RATIO * ancestorR : ancestorR;
+    // Inside an internode the fallback also stays at or below what the piece below got: otherwise
+    // a chain of unfitted pieces on a thin side shoot (a strand of stray returns) climbs back to
+    // the stem's radius after its first piece.
+    const fallbackCap = piece.startsInternode ? FALLBACK_PARENT_RATIO * ancestorR : Math.min(ancestorR, piece.parent >= 0 ? usedRadius[piece.parent] : Infinity);
     const radiusM = sane ? fit!.radiusM : Math.min(Math.max(rough, 1e-4), fallbackCap);
     fittedRadius.push(sane ? fit!.radiusM : ancestorR);
+    usedRadius.push(radiusM);
     const tooThick = fit !== null && fit.radiusM > parentCap;
     const rel = sane
       ? assessReliability(fit, { rangeNoiseM: options.range_noise_m, minPoints: options.min_fit_points })
