@@ -5,7 +5,7 @@
  * 2. end to end (reconstructTree + encoding of all outputs) per stage and peak RSS for generated trees
  *    of 1, 2, 4, 8 M points (each size in its own process so peak memory is its own), and the
  *    growth ratio time(8 M)/time(1 M).
- * Run: `npm run build && node --expose-gc dist/bench/reconstruct.js [--sizes=1,2,4,8] [--knn-only]`.
+ * Run: `npm run build && node --expose-gc dist/bench/reconstruct.js [--sizes=1,2,4,8] [--knn-only] [--knn-repeat=3]`.
  */
 import { spawnSync } from 'node:child_process';
 import { mkdtempSync, rmSync, writeFileSync } from 'node:fs';
@@ -17,7 +17,7 @@ import { simulateOptions } from '../core/simulate/options.js';
 import { presetOptions } from '../core/simulate/presets.js';
 import { createPointCloud, type PointCloud } from '../core/types/point-cloud.js';
 import { createRandom } from '../core/util/random.js';
-import { buildKdTree } from '../core/graph/kdtree.js';
+import { buildKdTree, knnAllPoints } from '../core/graph/kdtree.js';
 import { allKnn } from '../core/graph/neighbour-graph.js';
 import { reconstructTree } from '../core/reconstruct/reconstruct-tree.js';
 import { cleanOptions } from '../core/clean/options.js';
@@ -64,15 +64,20 @@ export function benchCloud(count: number, seed = 1): PointCloud {
   return createPointCloud(x, y, z);
 }
 
-function knnSideBySide(count: number): void {
+/** Seconds of CPU time used by this process so far (user + system; steadier than wall time on a shared machine). */
+function cpuS(): number {
+  const u = process.cpuUsage();
+  return (u.user + u.system) / 1e6;
+}
+
+/**
+ * All-points 16-NN on the same cloud, ours and scipy's in alternation, `repeat` rounds. Ours is timed
+ * both through `allKnn` (queries in input order, the path neighbour-graph.ts uses today) and through
+ * `knnAllPoints` (queries in tree order); the two must agree on every distance.
+ */
+function knnSideBySide(count: number, repeat: number): void {
+  const k = 16;
   const cloud = benchCloud(count, 2);
-  let t0 = performance.now();
-  const tree = buildKdTree(cloud.x, cloud.y, cloud.z);
-  const buildS = (performance.now() - t0) / 1000;
-  t0 = performance.now();
-  allKnn(tree, cloud.x, cloud.y, cloud.z, 16);
-  const queryS = (performance.now() - t0) / 1000;
-  console.log(`kNN, ${count} points, k = 16: xylemap kd-tree build ${buildS.toFixed(2)} s + queries ${queryS.toFixed(2)} s = ${(buildS + queryS).toFixed(2)} s (1 thread)`);
   const dir = mkdtempSync(join(tmpdir(), 'xylemap-knn-'));
   try {
     const xyz = new Float64Array(3 * count);
@@ -82,20 +87,41 @@ function knnSideBySide(count: number): void {
       xyz[3 * i + 2] = cloud.z[i];
     }
     writeFileSync(join(dir, 'xyz.bin'), xyz);
-    // k = 17 because cKDTree returns the point itself first; ours excludes it.
+    // k + 1 because cKDTree returns the point itself first; ours excludes it.
     const py = [
       'import numpy as np, time, sys',
       'from scipy.spatial import cKDTree',
       `p = np.fromfile(${JSON.stringify(join(dir, 'xyz.bin'))}, dtype='<f8').reshape(-1, 3)`,
-      't = time.perf_counter(); tr = cKDTree(p); b = time.perf_counter() - t',
-      't = time.perf_counter(); tr.query(p, k=17, workers=1); q = time.perf_counter() - t',
-      'print(f"{b:.2f} {q:.2f}")',
+      't = time.perf_counter(); c = time.process_time(); tr = cKDTree(p); b = time.perf_counter() - t; bc = time.process_time() - c',
+      `t = time.perf_counter(); c = time.process_time(); tr.query(p, k=${k + 1}, workers=1); q = time.perf_counter() - t; qc = time.process_time() - c`,
+      'print(f"{b:.2f} {q:.2f} {bc:.2f} {qc:.2f}")',
     ].join('\n');
-    const r = spawnSync('python3', ['-c', py], { encoding: 'utf8' });
-    if (r.status === 0) {
-      const [b, q] = r.stdout.trim().split(' ').map(Number);
-      console.log(`kNN, ${count} points, k = 16: scipy cKDTree build ${b.toFixed(2)} s + queries ${q.toFixed(2)} s = ${(b + q).toFixed(2)} s (workers = 1)`);
-    } else console.log(`scipy reference not run: ${r.stderr.split('\n').filter(Boolean).pop() ?? 'python3 failed'}`);
+    const line = (who: string, b: number, q: number, bc: number, qc: number, how: string): void =>
+      console.log(`kNN, ${count} points, k = ${k}: ${who} build ${b.toFixed(2)} s + queries ${q.toFixed(2)} s = ${(b + q).toFixed(2)} s wall (CPU ${(bc + qc).toFixed(2)} s) ${how}`);
+    for (let round = 1; round <= repeat; round++) {
+      console.log(`round ${round}/${repeat}`);
+      let t0 = performance.now(), c0 = cpuS();
+      const tree = buildKdTree(cloud.x, cloud.y, cloud.z);
+      const b = (performance.now() - t0) / 1000, bc = cpuS() - c0;
+      t0 = performance.now();
+      c0 = cpuS();
+      const byInput = allKnn(tree, cloud.x, cloud.y, cloud.z, k);
+      const q1 = (performance.now() - t0) / 1000, q1c = cpuS() - c0;
+      line('xylemap allKnn      ', b, q1, bc, q1c, '(queries in input order, 1 thread)');
+      t0 = performance.now();
+      c0 = cpuS();
+      const byTree = knnAllPoints(tree, k);
+      const q2 = (performance.now() - t0) / 1000, q2c = cpuS() - c0;
+      line('xylemap knnAllPoints', b, q2, bc, q2c, '(queries in tree order, 1 thread)');
+      let differ = 0;
+      for (let a = 0; a < byTree.dist.length; a++) if (byTree.dist[a] !== byInput.dist[a]) differ++;
+      if (differ > 0) console.log(`WARNING: allKnn and knnAllPoints disagree on ${differ} distances`);
+      const r = spawnSync('python3', ['-c', py], { encoding: 'utf8' });
+      if (r.status === 0) {
+        const [sb, sq, sbc, sqc] = r.stdout.trim().split(' ').map(Number);
+        line('scipy cKDTree       ', sb, sq, sbc, sqc, '(workers = 1)');
+      } else console.log(`scipy reference not run: ${r.stderr.split('\n').filter(Boolean).pop() ?? 'python3 failed'}`);
+    }
   } finally {
     rmSync(dir, { recursive: true, force: true });
   }
@@ -117,7 +143,8 @@ export async function main(argv: string[] = process.argv.slice(2)): Promise<void
   const one = argv.find((a) => a.startsWith('--one='));
   if (one) return endToEnd(Number(one.slice(6)));
   const sizes = (argv.find((a) => a.startsWith('--sizes='))?.slice(8) ?? '1,2,4,8').split(',').map((s) => Number(s) * 1e6);
-  if (!argv.includes('--e2e-only')) knnSideBySide(2_000_000);
+  const repeat = Number(argv.find((a) => a.startsWith('--knn-repeat='))?.slice(13) ?? '1');
+  if (!argv.includes('--e2e-only')) knnSideBySide(2_000_000, repeat > 0 ? repeat : 1);
   if (argv.includes('--knn-only')) return;
   const self = fileURLToPath(import.meta.url);
   const times: Record<number, number> = {};
