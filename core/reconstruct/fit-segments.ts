@@ -4,6 +4,7 @@ import { medianRadius } from './band-clusters.js';
 import type { Skeleton } from './skeleton.js';
 import { fitCylinder } from './fit/cylinder-fit.js';
 import { assessReliability } from './fit/reliability.js';
+import { centreBreastHeight } from './breast-height.js';
 
 /** What fitting needs from the cleaned cloud. */
 export interface FitInput {
@@ -50,6 +51,8 @@ export function fitSegments(input: FitInput, bands: BandClusters, skeleton: Skel
   const fittedRadius: number[] = [];
   /** Radius each piece actually got (fitted or fallback), m: bounds the fallback of the piece above. */
   const usedRadius: number[] = [];
+  /** Fit points of each piece, kept for the breast-height slice. */
+  const piecePts: Int32Array[] = [];
   for (let p = 0; p < skeleton.pieces.length; p++) {
     const piece = skeleton.pieces[p];
     // A furcation cluster at the top of a piece holds the bases of its children too: leave it out
@@ -58,6 +61,7 @@ export function fitSegments(input: FitInput, bands: BandClusters, skeleton: Skel
       ? piece.clusters.slice(0, -1)
       : piece.clusters;
     const pts = piecePoints(input, bands, fitClusters);
+    piecePts.push(pts);
     const first = piece.clusters[0];
     const last = piece.clusters[piece.clusters.length - 1];
     const before = piece.parent >= 0 ? lastCluster(skeleton, piece.parent) : bands.parent[first];
@@ -127,7 +131,10 @@ export function fitSegments(input: FitInput, bands: BandClusters, skeleton: Skel
       radiusCorrection: sane ? '' : 'cluster_spread',
     });
   }
-  return splitAtInsertions(segments, skeleton);
+  // Segment → piece whose points it holds (the upper part of a split keeps its piece's points).
+  const source: number[] = segments.map((_, i) => i);
+  const split = splitAtInsertions(segments, skeleton, source);
+  return centreBreastHeight(split, (i) => (source[i] !== undefined ? piecePts[source[i]] : null), input.px, input.py, input.pz, options);
 }
 
 /** Shortest piece a split may leave on either side of an insertion, m. */
@@ -138,9 +145,11 @@ const MIN_SPLIT_PIECE_M = 0.02;
  * the parent segment overshoots. Where a lateral's axis meets its parent's axis well before the
  * parent's end, the parent is cut there: the lower part keeps the lateral, the upper part (same
  * cylinder, its points shared pro rata) carries the other children. The furcation then sits where
- * the branch leaves the stem, which matters e.g. for a fork just below breast height.
+ * the branch leaves the stem, which matters e.g. for a fork just below breast height. A lateral
+ * that meets the parent's axis within MIN_SPLIT_PIECE_M of the parent's start (or below it) is
+ * attached to the joint below instead, when a sibling is thicker (so it is not the continuation).
  */
-function splitAtInsertions(segments: Segment[], skeleton: Skeleton): Segment[] {
+function splitAtInsertions(segments: Segment[], skeleton: Skeleton, source: number[]): Segment[] {
   const n = segments.length;
   const children: number[][] = Array.from({ length: n }, () => []);
   for (let i = 0; i < n; i++) if (segments[i].parentId >= 0) children[segments[i].parentId].push(i);
@@ -166,11 +175,24 @@ function splitAtInsertions(segments: Segment[], skeleton: Skeleton): Segment[] {
         lowest = c;
       }
     }
-    if (lowest < 0 || !(tLow * len >= MIN_SPLIT_PIECE_M) || !((1 - tLow) * len >= MIN_SPLIT_PIECE_M)) continue;
+    if (lowest < 0) continue;
+    const movable = kids.some((c) => c !== lowest && out[c].radiusM > out[lowest].radiusM) || out[lowest].radiusM >= par.radiusM;
+    if (!(tLow * len >= MIN_SPLIT_PIECE_M) && par.parentId >= 0 && movable) {
+      // The lateral leaves at (or just below) the parent's start: it belongs to the joint below.
+      // It moves when a sibling is thicker (the continuation stays on the parent) or when it is at
+      // least as thick as the parent (it then continues the branch from the joint below); a thickest
+      // child thinner than a stub parent stays, or the stub's thin subtree would become the stem.
+      out[lowest].parentId = par.parentId;
+      out[lowest].start = [...par.start] as Vec3;
+      out[lowest].lengthM = Math.hypot(...sub(out[lowest].end, par.start));
+      continue;
+    }
+    if (!(tLow * len >= MIN_SPLIT_PIECE_M) || !((1 - tLow) * len >= MIN_SPLIT_PIECE_M)) continue;
     const q: Vec3 = [par.start[0] + axis[0] * tLow, par.start[1] + axis[1] * tLow, par.start[2] + axis[2] * tLow];
     const upperId = out.length;
     const upperPoints = Math.round(par.pointCount * (1 - tLow));
     out.push({ ...par, segmentId: upperId, parentId: p, start: q, end: [...par.end] as Vec3, lengthM: (1 - tLow) * len, pointCount: upperPoints });
+    source[upperId] = source[p];
     par.end = [...q] as Vec3;
     par.lengthM = tLow * len;
     par.pointCount -= upperPoints;

@@ -20,6 +20,9 @@ const PIECE_POINTS_PER_FIT_POINT = 3;
 /** Side shoots that stay below this height above the ground are ground clutter (common practice, no source). */
 const GROUND_SHOOT_HEIGHT_M = 0.5;
 
+/** A bridged gap may be at most this multiple of the attached piece's extent (common practice, no source). */
+const BRIDGE_GAP_PER_EXTENT = 1;
+
 export type ProgressCallback = (stage: string, done: number, total: number) => void;
 
 export interface ReconstructOptionsInput {
@@ -86,6 +89,9 @@ export function reconstructTree(cloud: PointCloud, options: ReconstructOptionsIn
   const bridges = bridgeGaps(cleaned.x, cleaned.y, cleaned.z, cleaned.graph, cleaned.tree, paths, include, {
     maxGapM: co.bridge_max_gap_m,
     minPieceVertices: co.min_piece_voxels,
+    heightM: cleaned.heightM,
+    minPieceTopM: GROUND_SHOOT_HEIGHT_M,
+    maxGapPerExtent: BRIDGE_GAP_PER_EXTENT,
   });
   // Unreached vertices in sizeable pieces (≥ 100 voxels) are objects or branches left out; single
   // stray voxels (clutter, mixed pixels) are expected and not worth a warning.

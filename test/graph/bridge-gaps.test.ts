@@ -52,4 +52,26 @@ describe('bridgeGaps', () => {
     expect(bridges.length).toBe(2);
     expect(s.paths.distanceM[s.x.length - 1]).toBeCloseTo(0.9, 6);
   });
+
+  it('refuses a gap longer than the piece itself when maxGapPerExtent is 1', () => {
+    // Geometry: a 5 cm speck 0.3 m above a 0.4 m branch; the gap (0.3 m) exceeds the speck (0.05 m).
+    const s = setup([...line(0, 0.4), ...line(0.7, 0.75)]);
+    const bridges = bridgeGaps(s.x, s.y, s.z, s.graph, s.tree, s.paths, s.include, { maxGapM: 0.5, minPieceVertices: 3, maxGapPerExtent: 1 });
+    expect(bridges.length).toBe(0);
+    // The same speck is attached without the rule: the rule, not the limit, refused it.
+    const t = setup([...line(0, 0.4), ...line(0.7, 0.75)]);
+    expect(bridgeGaps(t.x, t.y, t.z, t.graph, t.tree, t.paths, t.include, { maxGapM: 0.5, minPieceVertices: 3 }).length).toBe(1);
+  });
+
+  it('neither attaches pieces that stay below minPieceTopM nor lands bridges on reached vertices below it', () => {
+    // Heights = z here. A piece 0.1-0.3 m high next to the base is left out; a piece at 0.6-0.9 m
+    // attaches to the reached stem at or above 0.5 m (its nearest reached vertex at z = 0.5 m).
+    const s = setup([...line(0, 0.5), ...line(0.1, 0.3, 0.1), ...line(0.6, 0.9, 0.1)]);
+    const bridges = bridgeGaps(s.x, s.y, s.z, s.graph, s.tree, s.paths, s.include, { maxGapM: 0.5, minPieceVertices: 3, heightM: s.z, minPieceTopM: 0.5 });
+    expect(bridges.length).toBe(1);
+    expect(s.z[bridges[0].to]).toBeGreaterThanOrEqual(0.5);
+    expect(s.z[bridges[0].from]).toBeGreaterThanOrEqual(0.6);
+    const lowPiece = 51; // first vertex of the low piece
+    expect(s.paths.distanceM[lowPiece]).toBe(Infinity);
+  });
 });
