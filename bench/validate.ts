@@ -19,6 +19,10 @@ import { cleanOptions } from '../core/clean/options.js';
 import { reconstructOptions } from '../core/reconstruct/options.js';
 import { readCloud } from '../core/io/read-cloud.js';
 import type { Network } from '../core/types/network.js';
+import { analyseScaling } from '../core/scaling/analyse.js';
+import { scalingOptions } from '../core/scaling/options.js';
+import { analyseHydraulics } from '../core/hydraulics/analyse.js';
+import { hydraulicsOptions } from '../core/hydraulics/options.js';
 
 /** One scan-lab tree of the suite: a preset plus overrides (exponent, positions, noise …). */
 export interface SuiteTree {
@@ -50,8 +54,8 @@ export interface TreeValidation {
   reconstructMs: number;
   score: ScoreResult;
   warnings: string[];
-  /** Filled by later stages (e.g. the scaling check); null until then. */
-  exponent: { true: number; estimate: number | null } | null;
+  /** The tree-level exponent from the reconstruction (default scaling options) against the truth. */
+  exponent: { true: number; estimate: number | null; ci95: [number | null, number | null]; nUsed: number };
 }
 
 /** Targets of issue 4 (fractions). */
@@ -77,9 +81,19 @@ export function validateTree(
   t0 = performance.now();
   const result = reconstructTree(scan.cloud, { clean: cleanOptions.resolve(overrides.clean), reconstruct: reconstructOptions.resolve(overrides.reconstruct) });
   const reconstructMs = performance.now() - t0;
-  const score = scoreNetworks(scan.tree.network, result.network, scoreOptions.defaults(), { trueExponent: sOpts.exponent_a });
+  // Downstream stages with their defaults, on the reconstruction and (for conductance) on the truth.
+  const scaling = analyseScaling(result.network, scalingOptions.defaults()).summary.exponent;
+  const hOpts = hydraulicsOptions.defaults();
+  const conductance = (n: Network): number => analyseHydraulics(n, hOpts).summary.tree_conductance_kg_s_mpa as number;
+  const score = scoreNetworks(scan.tree.network, result.network, scoreOptions.defaults(), {
+    trueExponent: sOpts.exponent_a,
+    reconstructedExponent: scaling.estimate ?? undefined,
+    trueConductanceKgPerSPerMPa: conductance(scan.tree.network),
+    reconstructedConductanceKgPerSPerMPa: conductance(result.network),
+  });
+  const exponent = { true: sOpts.exponent_a, estimate: scaling.estimate, ci95: scaling.ci95, nUsed: scaling.n_used };
   return {
-    validation: { name: t.name, points: scan.cloud.count, simulateMs, reconstructMs, score, warnings: result.warnings, exponent: null },
+    validation: { name: t.name, points: scan.cloud.count, simulateMs, reconstructMs, score, warnings: result.warnings, exponent },
     result,
     truth: scan.tree.network,
   };
@@ -124,7 +138,19 @@ function printTree(v: TreeValidation): void {
       `rec≥2.5 ${pct(classFigure(s, 0.025, Infinity, 'recovered_fraction'))} rec1-2.5 ${pct(classFigure(s, 0.01, 0.025, 'recovered_fraction'))}  ` +
       `furc≥2.5 ${pct(furcationsThick(s))}  ${(v.reconstructMs / 1000).toFixed(1)} s`,
   );
+  const e = v.exponent;
+  const ci = `[${e.ci95.map((b) => (b === null ? 'n/a' : b.toFixed(2))).join(', ')}]`;
+  const g = s.conductance;
+  console.log(
+    `${''.padEnd(17)}exponent true ${e.true.toFixed(2)} estimate ${e.estimate === null ? 'n/a' : e.estimate.toFixed(3)} ${ci} ` +
+      `(n ${e.nUsed}) ${exponentCovered(e) ? 'covered' : 'NOT covered'}; conductance error ${pct(g ? g.relative_error : null)}`,
+  );
   for (const w of v.warnings) console.log(`${''.padEnd(17)}warning: ${w}`);
+}
+
+function exponentCovered(e: TreeValidation['exponent']): boolean {
+  const [lo, hi] = e.ci95;
+  return lo !== null && hi !== null && lo <= e.true && e.true <= hi;
 }
 
 /** The stated facts of the real scans, compared with our reconstruction. */
@@ -199,6 +225,12 @@ export async function main(argv: string[] = process.argv.slice(2)): Promise<Tree
   console.log(`median radius error ≥ 2.5 cm: worst ${pct(worst(results.map((v) => classFigure(v.score, 0.025, Infinity, 'radius_median_relative_error'))))} (target ≤ 5 %); 1–2.5 cm: worst ${pct(worst(results.map((v) => classFigure(v.score, 0.01, 0.025, 'radius_median_relative_error'))))} (target ≤ 15 %)`);
   console.log(`length recovered ≥ 2.5 cm: worst ${pct(worst(results.map((v) => classFigure(v.score, 0.025, Infinity, 'recovered_fraction')), false))} (target ≥ 95 %); 1–2.5 cm: worst ${pct(worst(results.map((v) => classFigure(v.score, 0.01, 0.025, 'recovered_fraction')), false))} (target ≥ 80 %)`);
   console.log(`furcations ≥ 2.5 cm found: worst ${pct(worst(results.map((v) => furcationsThick(v.score)), false))} (target ≥ 95 %)`);
+  // Targets of issue 5: |error| ≤ 0.10 for every tree; the truth inside the interval for ≥ 7 of 8.
+  const expErrors = results.map((v) => (v.exponent.estimate === null ? null : v.exponent.estimate - v.exponent.true));
+  const covered = results.filter((v) => exponentCovered(v.exponent)).length;
+  console.log(`exponent error: worst ${worst(expErrors)?.toFixed(3) ?? 'n/a'} (target ≤ 0.10 for every tree); truth inside the 95 % interval for ${covered} of ${results.length} trees (target ≥ 7 of 8)`);
+  const gErr = results.map((v) => v.score.conductance?.relative_error ?? null);
+  console.log(`whole-tree conductance (default hydraulics) error: worst ${pct(worst(gErr))}, mean |e| ${pct(gErr.filter((x): x is number => x !== null).reduce((a, x) => a + Math.abs(x), 0) / Math.max(1, gErr.filter((x) => x !== null).length))}`);
   console.log('--- real scans ---');
   const here = dirname(fileURLToPath(import.meta.url));
   const candidates = [join(here, '../../shared/data/real-trees'), join(here, '../../../shared/data/real-trees')];

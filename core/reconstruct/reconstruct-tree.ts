@@ -13,6 +13,7 @@ import { buildSkeleton } from './skeleton.js';
 import { fitSegments } from './fit-segments.js';
 import { summarizeReliability, type ReliabilitySummary } from './reliability-summary.js';
 import { correctNetworkRadii } from './correct-radii.js';
+import { floorUnfittedRadii } from './child-floor.js';
 
 /** A piece should hold this many times the fewest points a fit accepts (common practice, no source). */
 const PIECE_POINTS_PER_FIT_POINT = 3;
@@ -159,7 +160,7 @@ export function reconstructTree(cloud: PointCloud, options: ReconstructOptionsIn
   lap('fit');
 
   const correction = correctNetworkRadii(local, ro.range_noise_m, ro.correct_radii ? 'taper' : 'none');
-  const corrected = correction.segments;
+  const corrected = floorUnfittedRadii(correction.segments);
   const origin = cleaned.origin;
   const shifted: Segment[] = corrected.map((s) => ({
     ...s,
