@@ -51,3 +51,26 @@ export function segmentLength(s: Pick<Segment, 'start' | 'end'>): number {
 export function segmentVolumeM3(s: Pick<Segment, 'radiusM' | 'lengthM'>): number {
   return Math.PI * s.radiusM * s.radiusM * s.lengthM;
 }
+
+/** The fields a segment cannot do without; everything else has a neutral default. */
+export type SegmentGeometry = Pick<Segment, 'segmentId' | 'parentId' | 'start' | 'end' | 'radiusM'> & Partial<Segment>;
+
+/**
+ * A segment from its geometry, with neutral defaults for the rest: branch ids and orders 0 (for
+ * annotation to fill), no uncertainty, full arc coverage, reliable. Length from the end points.
+ */
+export function createSegment(fields: SegmentGeometry): Segment {
+  return {
+    branchId: 0,
+    branchOrder: 0,
+    strahlerOrder: 0,
+    radiusSeM: 0,
+    lengthM: segmentLength(fields),
+    fitRmseM: 0,
+    arcCoverage: 1,
+    pointCount: 0,
+    reliable: true,
+    reliabilityReason: '',
+    ...fields,
+  };
+}

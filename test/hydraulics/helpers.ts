@@ -1,4 +1,4 @@
-import type { Network, Segment, Vec3 } from '../../core/types/network.js';
+import { createSegment, type Network, type Segment, type Vec3 } from '../../core/types/network.js';
 
 /**
  * Generated test networks with known structure (no files): a symmetric binary tree whose level k
@@ -20,23 +20,7 @@ export interface BinaryTreeSpec {
 }
 
 export function segment(id: number, parentId: number, start: Vec3, end: Vec3, radiusM: number): Segment {
-  return {
-    segmentId: id,
-    parentId,
-    branchId: 0,
-    branchOrder: 0,
-    strahlerOrder: 0,
-    start,
-    end,
-    radiusM,
-    radiusSeM: 0,
-    lengthM: Math.hypot(end[0] - start[0], end[1] - start[1], end[2] - start[2]),
-    fitRmseM: 0,
-    arcCoverage: 1,
-    pointCount: 0,
-    reliable: true,
-    reliabilityReason: '',
-  };
+  return createSegment({ segmentId: id, parentId, start, end, radiusM });
 }
 
 export function binaryTree(spec: BinaryTreeSpec): Network {

@@ -1,27 +1,10 @@
 import { describe, expect, it } from 'vitest';
 import { floorUnfittedRadii } from '../../core/reconstruct/child-floor.js';
-import type { Segment } from '../../core/types/network.js';
+import { createSegment, type Segment } from '../../core/types/network.js';
 
 function seg(id: number, parentId: number, radiusM: number, radiusCorrection = ''): Segment {
-  return {
-    segmentId: id,
-    parentId,
-    branchId: 0,
-    branchOrder: 0,
-    strahlerOrder: 0,
-    start: [0, 0, id],
-    end: [0, 0, id + 1],
-    radiusM,
-    radiusSeM: 0,
-    lengthM: 1,
-    fitRmseM: 0,
-    arcCoverage: 1,
-    pointCount: 0,
-    reliable: radiusCorrection === '',
-    reliabilityReason: radiusCorrection === '' ? '' : 'few_points',
-    radiusFitM: radiusM,
-    radiusCorrection,
-  };
+  const fitted = radiusCorrection === '';
+  return createSegment({ segmentId: id, parentId, start: [0, 0, id], end: [0, 0, id + 1], radiusM, radiusFitM: radiusM, radiusCorrection, reliable: fitted, reliabilityReason: fitted ? '' : 'few_points' });
 }
 
 describe('floorUnfittedRadii', () => {

@@ -7,29 +7,13 @@ import { presetOptions } from '../../core/simulate/presets.js';
 import { LABEL, scanPositions, scanScene, type ScanPosition } from '../../core/simulate/scanner.js';
 import { buildScene } from '../../core/simulate/scene.js';
 import { simulate } from '../../core/simulate/simulate.js';
-import type { Network, Vec3 } from '../../core/types/network.js';
+import { createSegment, type Network, type Vec3 } from '../../core/types/network.js';
 import { createRandom } from '../../core/util/random.js';
 
 /** A scene of free-standing cylinders (start, end, radius); topology is irrelevant to the scanner. */
 function cylinders(list: [Vec3, Vec3, number][]): Network {
   return {
-    segments: list.map(([start, end, radiusM], i) => ({
-      segmentId: i,
-      parentId: i - 1,
-      branchId: i,
-      branchOrder: 0,
-      strahlerOrder: 1,
-      start,
-      end,
-      radiusM,
-      radiusSeM: 0,
-      lengthM: Math.hypot(end[0] - start[0], end[1] - start[1], end[2] - start[2]),
-      fitRmseM: 0,
-      arcCoverage: 1,
-      pointCount: 0,
-      reliable: true,
-      reliabilityReason: '',
-    })),
+    segments: list.map(([start, end, radiusM], i) => createSegment({ segmentId: i, parentId: i - 1, branchId: i, strahlerOrder: 1, start, end, radiusM })),
   };
 }
 

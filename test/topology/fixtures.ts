@@ -1,24 +1,8 @@
-import type { Segment, Vec3 } from '../../core/types/network.js';
+import { createSegment, type Segment, type Vec3 } from '../../core/types/network.js';
 
 /** A plain segment with the given geometry; orders/branch ids left at 0 for annotation to fill. */
 export function seg(segmentId: number, parentId: number, start: Vec3, end: Vec3, radiusM: number, radiusSeM = 0): Segment {
-  return {
-    segmentId,
-    parentId,
-    branchId: 0,
-    branchOrder: 0,
-    strahlerOrder: 0,
-    start,
-    end,
-    radiusM,
-    radiusSeM,
-    lengthM: Math.hypot(end[0] - start[0], end[1] - start[1], end[2] - start[2]),
-    fitRmseM: 0,
-    arcCoverage: 1,
-    pointCount: 100,
-    reliable: true,
-    reliabilityReason: '',
-  };
+  return createSegment({ segmentId, parentId, start, end, radiusM, radiusSeM, pointCount: 100 });
 }
 
 /**
