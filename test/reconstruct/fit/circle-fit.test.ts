@@ -30,12 +30,12 @@ const ARCS: [string, number][] = [
 ];
 
 /** Mean radius over seeded replicates, relative to the truth. */
-function meanRelError(fit: typeof fitCircleTaubin, arcRad: number, sigmaRel: number, n: number): number {
+function meanRelError(circleFit: typeof fitCircleTaubin, arcRad: number, sigmaRel: number, n: number): number {
   let sum = 0;
   const reps = 200;
   for (let s = 0; s < reps; s++) {
     const { u, v } = arc(n, 0.3, -0.1, 0.05, arcRad, sigmaRel * 0.05, 100 + s);
-    sum += fit(u, v)!.radius;
+    sum += circleFit(u, v)!.radius;
   }
   return sum / reps / 0.05 - 1;
 }

@@ -11,7 +11,7 @@ import {
 } from '../../../core/reconstruct/fit/sample-cylinder.js';
 import type { Vec3 } from '../../../core/types/network.js';
 
-function fit(spec: CylinderSpec, options: Parameters<typeof fitCylinder>[4] = {}): CylinderFit {
+function fitSample(spec: CylinderSpec, options: Parameters<typeof fitCylinder>[4] = {}): CylinderFit {
   const s = sampleCylinder(spec);
   const f = fitCylinder(s.x, s.y, s.z, s.indices, options);
   expect(f).not.toBeNull();
@@ -26,7 +26,7 @@ describe('fitCylinder', () => {
     // Offsets of 5e6 m limit the data themselves to ~1e-9 m (IEEE 754 spacing).
     const centre: Vec3 = [512345.6, 5123456.7, 312.3];
     for (const arcRad of [2 * Math.PI, Math.PI]) {
-      const f = fit({ n: 300, radiusM: 0.08, lengthM: 0.5, arcRad, noiseM: 0, axis: TILTED, centre, seed: 3 });
+      const f = fitSample({ n: 300, radiusM: 0.08, lengthM: 0.5, arcRad, noiseM: 0, axis: TILTED, centre, seed: 3 });
       expect(Math.abs(f.radiusM - 0.08)).toBeLessThan(1e-7);
       expect(lineAngle(f.axisDir, TILTED)).toBeLessThan(1e-6);
       expect(distanceToLine(f.axisPoint, centre, TILTED)).toBeLessThan(1e-7);
@@ -43,7 +43,7 @@ describe('fitCylinder', () => {
     const radii: number[] = [];
     const ses: number[] = [];
     for (let seed = 1; seed <= 40; seed++) {
-      const f = fit({ n, radiusM: 0.05, lengthM: 0.3, arcRad: 2 * Math.PI, noiseM: sigma, axis: TILTED, seed });
+      const f = fitSample({ n, radiusM: 0.05, lengthM: 0.3, arcRad: 2 * Math.PI, noiseM: sigma, axis: TILTED, seed });
       radii.push(f.radiusM);
       ses.push(f.radiusSeM);
       expect(Math.abs(f.radiusM - 0.05)).toBeLessThan(4 * f.radiusSeM);
@@ -64,7 +64,7 @@ describe('fitCylinder', () => {
     let sum = 0;
     const reps = 30;
     for (let seed = 1; seed <= reps; seed++) {
-      const f = fit({ n: 300, radiusM: 0.05, lengthM: 0.3, arcRad: Math.PI, noiseM: 0.002, axis: TILTED, seed: 100 + seed });
+      const f = fitSample({ n: 300, radiusM: 0.05, lengthM: 0.3, arcRad: Math.PI, noiseM: 0.002, axis: TILTED, seed: 100 + seed });
       expect(Math.abs(f.radiusM - 0.05)).toBeLessThan(5 * f.radiusSeM);
       expect(f.arcCoverage).toBeGreaterThanOrEqual(8 / ARC_SECTORS);
       expect(f.arcCoverage).toBeLessThanOrEqual(9 / ARC_SECTORS);
@@ -75,7 +75,7 @@ describe('fitCylinder', () => {
 
   it('fits a 90° arc of a 10 cm branch to within 5 % of the radius with 1 mm noise', () => {
     // One-sided scan of a thick branch; short arcs inflate the variance, not the bias (Chernov 2010, §6).
-    const f = fit({ n: 400, radiusM: 0.1, lengthM: 0.4, arcRad: Math.PI / 2, noiseM: 0.001, axis: [0, 1, 0.2], seed: 5 });
+    const f = fitSample({ n: 400, radiusM: 0.1, lengthM: 0.4, arcRad: Math.PI / 2, noiseM: 0.001, axis: [0, 1, 0.2], seed: 5 });
     expect(Math.abs(f.radiusM - 0.1) / 0.1).toBeLessThan(0.05);
     expect(f.arcCoverage).toBeLessThanOrEqual(5 / ARC_SECTORS);
   });
@@ -89,9 +89,9 @@ describe('fitCylinder', () => {
         let worstPlain = 0;
         for (let seed = 1; seed <= 10; seed++) {
           const spec: CylinderSpec = { n: 400, radiusM: 0.04, lengthM: 0.3, arcRad: 2 * Math.PI, noiseM: 0.001, outlierFraction: fo, axis: TILTED, seed };
-          const f = fit(spec, { robust });
+          const f = fitSample(spec, { robust });
           worst = Math.max(worst, Math.abs(f.radiusM - 0.04) / 0.04);
-          const p = fit(spec, { robust: 'none' });
+          const p = fitSample(spec, { robust: 'none' });
           worstPlain = Math.max(worstPlain, Math.abs(p.radiusM - 0.04) / 0.04);
         }
         expect(worst).toBeLessThan(robust === 'tukey' ? 0.02 : 0.05);
@@ -105,7 +105,7 @@ describe('fitCylinder', () => {
     const radii: number[] = [];
     const ses: number[] = [];
     for (let seed = 1; seed <= 40; seed++) {
-      const f = fit({ n: 300, radiusM: 0.05, lengthM: 0.3, arcRad: 2 * Math.PI, noiseM: 0.001, outlierFraction: 0.15, axis: TILTED, seed: 500 + seed });
+      const f = fitSample({ n: 300, radiusM: 0.05, lengthM: 0.3, arcRad: 2 * Math.PI, noiseM: 0.001, outlierFraction: 0.15, axis: TILTED, seed: 500 + seed });
       radii.push(f.radiusM);
       ses.push(f.radiusSeM);
     }
@@ -129,7 +129,7 @@ describe('fitCylinder', () => {
 
   it('finds the axis of a stub shorter than its diameter without an initial axis', () => {
     // A short wide cylinder has its largest spread across the axis, not along it (PCA of a disc).
-    const f = fit({ n: 300, radiusM: 0.2, lengthM: 0.1, arcRad: 2 * Math.PI, noiseM: 0.0005, axis: TILTED, seed: 8 });
+    const f = fitSample({ n: 300, radiusM: 0.2, lengthM: 0.1, arcRad: 2 * Math.PI, noiseM: 0.0005, axis: TILTED, seed: 8 });
     expect(lineAngle(f.axisDir, TILTED)).toBeLessThan(0.01);
     expect(Math.abs(f.radiusM - 0.2)).toBeLessThan(0.001);
   });
@@ -140,7 +140,7 @@ describe('fitCylinder', () => {
     const t = (15 * Math.PI) / 180;
     const axis0 = unit([0, 1, 2].map((k) => Math.cos(t) * TILTED[k] + Math.sin(t) * e1[k]) as Vec3);
     expect(lineAngle(axis0, TILTED)).toBeCloseTo(t, 12);
-    const f = fit({ n: 300, radiusM: 0.05, lengthM: 0.4, arcRad: 2 * Math.PI, noiseM: 0.0005, axis: TILTED, seed: 9 }, { initialAxis: axis0 });
+    const f = fitSample({ n: 300, radiusM: 0.05, lengthM: 0.4, arcRad: 2 * Math.PI, noiseM: 0.0005, axis: TILTED, seed: 9 }, { initialAxis: axis0 });
     expect(lineAngle(f.axisDir, TILTED)).toBeLessThan(0.01);
     expect(Math.abs(f.radiusM - 0.05)).toBeLessThan(0.0005);
     // orientation follows the given axis
@@ -149,7 +149,7 @@ describe('fitCylinder', () => {
 
   it('puts start and end at the extreme projections of the points, one length apart', () => {
     // Uniform heights on [−L/2, L/2]: the sample range approaches L as n grows (E = L(n−1)/(n+1)).
-    const f = fit({ n: 1000, radiusM: 0.03, lengthM: 0.25, arcRad: 2 * Math.PI, noiseM: 0.0003, axis: [0, 0, 1], centre: [1, 2, 3], seed: 10 });
+    const f = fitSample({ n: 1000, radiusM: 0.03, lengthM: 0.25, arcRad: 2 * Math.PI, noiseM: 0.0003, axis: [0, 0, 1], centre: [1, 2, 3], seed: 10 });
     expect(f.lengthM).toBeGreaterThan(0.245);
     expect(f.lengthM).toBeLessThanOrEqual(0.2501);
     expect(Math.hypot(f.end[0] - f.start[0], f.end[1] - f.start[1], f.end[2] - f.start[2])).toBeCloseTo(f.lengthM, 10);
@@ -159,7 +159,7 @@ describe('fitCylinder', () => {
 
   it('reports arc coverage of about 1/6 for a 60° arc', () => {
     // 60° of 360° spans 2.67 of 16 sectors, so 3 or 4 sectors hold points.
-    const f = fit({ n: 300, radiusM: 0.05, lengthM: 0.3, arcRad: Math.PI / 3, noiseM: 0.0002, seed: 11 });
+    const f = fitSample({ n: 300, radiusM: 0.05, lengthM: 0.3, arcRad: Math.PI / 3, noiseM: 0.0002, seed: 11 });
     expect(f.arcCoverage).toBeGreaterThanOrEqual(3 / ARC_SECTORS);
     expect(f.arcCoverage).toBeLessThanOrEqual(4 / ARC_SECTORS);
   });
@@ -191,8 +191,8 @@ describe('fitCylinder', () => {
 
   it('returns identical results for identical input', () => {
     // Repeatability rule of the project: no hidden randomness.
-    const a = fit({ n: 200, radiusM: 0.05, lengthM: 0.3, arcRad: 4, noiseM: 0.001, outlierFraction: 0.1, seed: 12 });
-    const b = fit({ n: 200, radiusM: 0.05, lengthM: 0.3, arcRad: 4, noiseM: 0.001, outlierFraction: 0.1, seed: 12 });
+    const a = fitSample({ n: 200, radiusM: 0.05, lengthM: 0.3, arcRad: 4, noiseM: 0.001, outlierFraction: 0.1, seed: 12 });
+    const b = fitSample({ n: 200, radiusM: 0.05, lengthM: 0.3, arcRad: 4, noiseM: 0.001, outlierFraction: 0.1, seed: 12 });
     expect(b).toEqual(a);
   });
 
