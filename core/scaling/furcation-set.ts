@@ -66,7 +66,9 @@ export interface FurcationRecord {
  * internode taper k = d ln r / dx, x the fractional position along the internode (0 at its base,
  * 1 at its top), is fitted once for the whole tree by least squares with one intercept per
  * internode (so the radius drops AT furcations do not enter it), over internodes with ≥ 2 usable
- * segments. Each window radius at fractional distance u from the joint-adjacent segment (midpoint
+ * segments left after dropping the `joint_skip_segments` segments next to each joint (the same
+ * ones the windows skip: on reconstructed networks they read thick, which steepened k and
+ * over-corrected — measured on the scan-lab suite: mean |exponent error| 0.32 → 0.22). Each window radius at fractional distance u from the joint-adjacent segment (midpoint
  * to midpoint) is then multiplied by e^(k·u) (parent) or e^(−k·u) (child), i.e. carried to the
  * radius of the cylinder next to the joint. The Monte Carlo part of the interval refits k on every
  * draw, because an error in k shifts ALL furcations the same way (measured: ignoring it gave
@@ -82,7 +84,7 @@ export function collectFurcations(ann: AnnotatedNetwork, options: ScalingOptionV
     sampleSeM[i] = segments[i].radiusSeM > 0 ? segments[i].radiusSeM : 0;
   }
   const usable = (i: number): boolean => options.use_unreliable || segments[i].reliable;
-  const taper = options.taper_adjust ? internodeTaper(ann, usable) : undefined;
+  const taper = options.taper_adjust ? internodeTaper(ann, usable, options.joint_skip_segments) : undefined;
   const out: FurcationRecord[] = [];
   let id = 0;
   for (const f of furcations(tree)) {
@@ -173,7 +175,7 @@ function fromJoint(chain: number[], segments: AnnotatedNetwork['segments']): num
 }
 
 /** The internodes (usable segments, fractional positions from the base) and the fitted taper rate. */
-function internodeTaper(ann: AnnotatedNetwork, usable: (i: number) => boolean): InternodeTaper {
+function internodeTaper(ann: AnnotatedNetwork, usable: (i: number) => boolean, skip: number): InternodeTaper {
   const { tree, segments } = ann;
   const starts = [tree.root];
   for (let i = 0; i < tree.size; i++) if (tree.children[i].length >= 2) starts.push(...tree.children[i]);
@@ -181,7 +183,12 @@ function internodeTaper(ann: AnnotatedNetwork, usable: (i: number) => boolean): 
   for (const start of starts) {
     const chain = chainUp(tree, start);
     const x = fromJoint(chain, segments);
-    const keep = chain.map((_, p) => p).filter((p) => usable(chain[p]));
+    // Leave out the joint-adjacent segments at both ends (the same ones the windows skip): their
+    // fits see the other branches' points, read thick and would steepen k.
+    const endsAtJoint = tree.children[chain[chain.length - 1]].length >= 2;
+    const top = endsAtJoint ? chain.length - skip : chain.length;
+    const bottom = start === tree.root ? 0 : skip;
+    const keep = chain.map((_, p) => p).filter((p) => p >= bottom && p < top && usable(chain[p]));
     if (keep.length < 2) continue;
     internodes.push({ samples: Int32Array.from(keep, (p) => chain[p]), x: Float64Array.from(keep, (p) => x[p]) });
   }

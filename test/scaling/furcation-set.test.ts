@@ -68,6 +68,22 @@ describe('collectFurcations', () => {
     expect(adjacent.parentU.map((u) => +u.toFixed(12))).toEqual([0.25, 0.5]);
     expect(joint.parentU.map((u) => +u.toFixed(12))).toEqual([0.375, 0.625]);
   });
+
+  it('fits the within-internode taper without the joint-adjacent segments the windows skip', () => {
+    // ln r = c + k·x with k = −0.2 on every internode (x = 0.125 … 0.875), but the segments next to
+    // the joint read 30 % thick (points of the other branches); the fixed-effects fit on the
+    // remaining segments must give k exactly (worked out by hand from the rule in furcation-set.ts).
+    const x = [0.125, 0.375, 0.625, 0.875];
+    const taper = (c: number) => x.map((v) => c * Math.exp(-0.2 * v));
+    const trunk = taper(0.5);
+    const left = taper(0.15);
+    const right = taper(0.1);
+    trunk[3] *= 1.3;
+    left[0] *= 1.3;
+    right[0] *= 1.3;
+    const set = collectFurcations(annotateNetwork({ segments: forked(trunk, left, right) }), scalingOptions.resolve({}));
+    expect(set.taper?.rate).toBeCloseTo(-0.2, 12);
+  });
 });
 
 describe('fitTaperRate', () => {
