@@ -1,5 +1,6 @@
 import type { Network, Segment, Vec3 } from '../types/network.js';
 import { XylemapError } from '../util/errors.js';
+import { segmentFromFields } from './segment-fields.js';
 
 /** Schema id of network.json; bump the number on any incompatible change. */
 export const NETWORK_SCHEMA = 'xylemap.network/1';
@@ -94,31 +95,10 @@ export function parseNetworkJson(text: string, file = 'network.json'): Network {
       }
       return [v[0], v[1], v[2]];
     };
-    const radiusM = num('radius_m');
-    if (!(radiusM > 0)) throw new XylemapError(`segment ${i}: radius_m must be > 0 m, got ${radiusM}`, { file });
-    const start = vec('start');
-    const end = vec('end');
+    const str = (key: string, fallback: string): string => (typeof r[key] === 'string' ? (r[key] as string) : fallback);
     const extra = r.extra && typeof r.extra === 'object' ? (r.extra as Record<string, number | string>) : undefined;
-    return {
-      segmentId: num('segment_id'),
-      parentId: num('parent_id'),
-      branchId: num('branch_id', 0),
-      branchOrder: num('branch_order', 0),
-      strahlerOrder: num('strahler_order', 0),
-      start,
-      end,
-      radiusM,
-      radiusSeM: num('radius_se_m', 0),
-      lengthM: num('length_m', Math.hypot(end[0] - start[0], end[1] - start[1], end[2] - start[2])),
-      fitRmseM: num('fit_rmse_m', 0),
-      arcCoverage: num('arc_coverage', 1),
-      pointCount: num('point_count', 0),
-      reliable: r.reliable === undefined ? true : r.reliable === true,
-      reliabilityReason: typeof r.reliability_reason === 'string' ? r.reliability_reason : '',
-      radiusFitM: num('radius_fit_m', radiusM),
-      radiusCorrection: typeof r.radius_correction === 'string' ? r.radius_correction : '',
-      ...(extra ? { extra } : {}),
-    };
+    const reliable = r.reliable === undefined ? true : r.reliable === true;
+    return segmentFromFields({ num, str }, { start: vec('start'), end: vec('end'), reliable, ...(extra ? { extra } : {}) }, `segment ${i}`, file);
   });
   return { segments, ...(typeof o.crs_wkt === 'string' ? { crsWkt: o.crs_wkt } : {}) };
 }

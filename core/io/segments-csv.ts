@@ -1,6 +1,7 @@
 import { XylemapError } from '../util/errors.js';
 import type { Network, Segment } from '../types/network.js';
 import { formatCsv, parseCsv } from './csv.js';
+import { segmentFromFields } from './segment-fields.js';
 
 /**
  * segments.csv: one row per fitted cylinder, the format reconstruction writes, the scan lab writes
@@ -104,8 +105,6 @@ export function parseSegmentsCsv(text: string, file = 'segments.csv'): Network {
     };
     const start: [number, number, number] = [num('start_x'), num('start_y'), num('start_z')];
     const end: [number, number, number] = [num('end_x'), num('end_y'), num('end_z')];
-    const radiusM = num('radius_m');
-    if (!(radiusM > 0)) throw new XylemapError(`line ${line}: radius_m must be > 0 m, got ${radiusM}`, { file });
     const extra: Record<string, number | string> = {};
     for (const k of extraKeys) {
       const raw = str(k, '');
@@ -113,26 +112,8 @@ export function parseSegmentsCsv(text: string, file = 'segments.csv'): Network {
       extra[k] = raw !== '' && Number.isFinite(v) ? v : raw;
     }
     const reliableText = str('reliable', 'true').toLowerCase();
-    return {
-      segmentId: num('segment_id'),
-      parentId: num('parent_id'),
-      branchId: num('branch_id', 0),
-      branchOrder: num('branch_order', 0),
-      strahlerOrder: num('strahler_order', 0),
-      start,
-      end,
-      radiusM,
-      radiusSeM: num('radius_se_m', 0),
-      lengthM: num('length_m', Math.hypot(end[0] - start[0], end[1] - start[1], end[2] - start[2])),
-      fitRmseM: num('fit_rmse_m', 0),
-      arcCoverage: num('arc_coverage', 1),
-      pointCount: num('point_count', 0),
-      reliable: reliableText === 'true' || reliableText === '1',
-      reliabilityReason: str('reliability_reason', ''),
-      radiusFitM: num('radius_fit_m', radiusM),
-      radiusCorrection: str('radius_correction', ''),
-      ...(extraKeys.length > 0 ? { extra } : {}),
-    };
+    const reliable = reliableText === 'true' || reliableText === '1';
+    return segmentFromFields({ num, str }, { start, end, reliable, ...(extraKeys.length > 0 ? { extra } : {}) }, `line ${line}`, file);
   });
   return { segments };
 }
