@@ -1,4 +1,5 @@
 import type { Network } from '../types/network.js';
+import { segmentToFields } from './segment-fields.js';
 
 /**
  * network.graphml (GraphML 1.0, graphml.graphdrawing.org): the network as a directed graph whose
@@ -40,21 +41,7 @@ export function formatGraphml(network: Network): string {
   segs.forEach((s, i) => {
     const p = s.parentId < 0 ? undefined : indexOf.get(s.parentId);
     const source = p === undefined ? 'n0' : `n${p + 1}`;
-    const values: Record<string, string | number | boolean> = {
-      segment_id: s.segmentId,
-      parent_id: s.parentId,
-      branch_id: s.branchId,
-      branch_order: s.branchOrder,
-      strahler_order: s.strahlerOrder,
-      radius_m: s.radiusM,
-      radius_se_m: s.radiusSeM,
-      length_m: s.lengthM,
-      fit_rmse_m: s.fitRmseM,
-      arc_coverage: s.arcCoverage,
-      point_count: s.pointCount,
-      reliable: s.reliable,
-      reliability_reason: s.reliabilityReason,
-    };
+    const values = segmentToFields(s);
     const data = edgeKeys.map(([k]) => `<data key="${k}">${escapeXml(String(values[k]))}</data>`).join('');
     out.push(`    <edge id="e${s.segmentId}" source="${source}" target="n${i + 1}">${data}</edge>`);
   });

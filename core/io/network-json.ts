@@ -1,6 +1,6 @@
 import type { Network, Segment, Vec3 } from '../types/network.js';
 import { XylemapError } from '../util/errors.js';
-import { segmentFromFields } from './segment-fields.js';
+import { segmentFromFields, segmentToFields } from './segment-fields.js';
 
 /** Schema id of network.json; bump the number on any incompatible change. */
 export const NETWORK_SCHEMA = 'xylemap.network/1';
@@ -25,23 +25,7 @@ export const NETWORK_UNITS = {
  */
 export function formatNetworkJson(network: Network, meta: Record<string, unknown> = {}): string {
   const segments = network.segments.map((s) => ({
-    segment_id: s.segmentId,
-    parent_id: s.parentId,
-    branch_id: s.branchId,
-    branch_order: s.branchOrder,
-    strahler_order: s.strahlerOrder,
-    start: s.start,
-    end: s.end,
-    radius_m: s.radiusM,
-    radius_se_m: s.radiusSeM,
-    length_m: s.lengthM,
-    fit_rmse_m: s.fitRmseM,
-    arc_coverage: s.arcCoverage,
-    point_count: s.pointCount,
-    reliable: s.reliable,
-    reliability_reason: s.reliabilityReason,
-    radius_fit_m: s.radiusFitM ?? s.radiusM,
-    radius_correction: s.radiusCorrection ?? '',
+    ...segmentToFields(s),
     ...(s.extra && Object.keys(s.extra).length > 0 ? { extra: s.extra } : {}),
   }));
   return (

@@ -43,3 +43,26 @@ export function segmentFromFields(
     ...(geometry.extra ? { extra: geometry.extra } : {}),
   };
 }
+
+/** A segment's snake_case fields (the inverse of `segmentFromFields`), as network.json and GraphML write them. */
+export function segmentToFields(s: Segment): Record<string, number | string | boolean | Vec3> {
+  return {
+    segment_id: s.segmentId,
+    parent_id: s.parentId,
+    branch_id: s.branchId,
+    branch_order: s.branchOrder,
+    strahler_order: s.strahlerOrder,
+    start: s.start,
+    end: s.end,
+    radius_m: s.radiusM,
+    radius_se_m: s.radiusSeM,
+    length_m: s.lengthM,
+    fit_rmse_m: s.fitRmseM,
+    arc_coverage: s.arcCoverage,
+    point_count: s.pointCount,
+    reliable: s.reliable,
+    reliability_reason: s.reliabilityReason,
+    radius_fit_m: s.radiusFitM ?? s.radiusM,
+    radius_correction: s.radiusCorrection ?? '',
+  };
+}

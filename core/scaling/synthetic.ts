@@ -1,4 +1,4 @@
-import type { Network, Segment, Vec3 } from '../types/network.js';
+import { createSegment, type Network, type Segment, type Vec3 } from '../types/network.js';
 import { createRandom } from '../util/random.js';
 
 /**
@@ -87,23 +87,7 @@ export function withRadiusNoise(network: Network, relativeSd: number, seed: numb
 }
 
 function plainSegment(segmentId: number, parentId: number, start: Vec3, end: Vec3, radiusM: number, lengthM: number): Segment {
-  return {
-    segmentId,
-    parentId,
-    branchId: 0,
-    branchOrder: 0,
-    strahlerOrder: 0,
-    start,
-    end,
-    radiusM,
-    radiusSeM: 0,
-    lengthM,
-    fitRmseM: 0,
-    arcCoverage: 1,
-    pointCount: 0,
-    reliable: true,
-    reliabilityReason: '',
-  };
+  return createSegment({ segmentId, parentId, start, end, radiusM, lengthM });
 }
 
 /** Direction tilted by `tilt` rad away from `d`, rotated `azimuth` rad around it. */

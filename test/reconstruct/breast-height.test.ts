@@ -1,28 +1,10 @@
 import { describe, expect, it } from 'vitest';
 import { centreBreastHeight } from '../../core/reconstruct/breast-height.js';
-import type { Segment, Vec3 } from '../../core/types/network.js';
+import { createSegment, type Segment, type Vec3 } from '../../core/types/network.js';
 import { createRandom } from '../../core/util/random.js';
 
 function segment(id: number, parentId: number, start: Vec3, end: Vec3, radiusM: number): Segment {
-  return {
-    segmentId: id,
-    parentId,
-    branchId: 0,
-    branchOrder: 0,
-    strahlerOrder: 0,
-    start,
-    end,
-    radiusM,
-    radiusSeM: 0.001,
-    lengthM: Math.hypot(end[0] - start[0], end[1] - start[1], end[2] - start[2]),
-    fitRmseM: 0.001,
-    arcCoverage: 1,
-    pointCount: 0,
-    reliable: true,
-    reliabilityReason: '',
-    radiusFitM: radiusM,
-    radiusCorrection: '',
-  };
+  return createSegment({ segmentId: id, parentId, start, end, radiusM, radiusSeM: 0.001, fitRmseM: 0.001, radiusFitM: radiusM, radiusCorrection: '' });
 }
 
 /** Vertical stem: a 1 m base segment, a tapering segment from z = 1 to 2 m, one child above. */
